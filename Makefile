@@ -1,0 +1,31 @@
+# Everything a fresh clone needs: `make demo` and `make test` create .venv when it is missing.
+PYTHON ?= python3
+VENV := .venv
+BIN := $(VENV)/bin
+
+.PHONY: demo test bench clean
+
+$(BIN)/python:
+	$(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install --quiet --upgrade pip
+
+$(VENV)/.installed: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e .
+	touch $@
+
+$(VENV)/.installed-test: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e '.[test]'
+	touch $(VENV)/.installed $@
+
+demo: $(VENV)/.installed
+	$(BIN)/linecalc budget stations/hilltop-dipole.yaml
+	$(BIN)/linecalc budget stations/orchard-doublet.yaml
+
+test: $(VENV)/.installed-test
+	$(BIN)/python -m pytest -q
+
+bench: $(VENV)/.installed-test
+	$(BIN)/python bench/bench_solver.py
+
+clean:
+	rm -rf $(VENV) build *.egg-info linecalc.egg-info
