@@ -1,0 +1,343 @@
+"""Physics of cables: attenuation fit, geometry models, per-metre constants (RLGC) and line constants.
+
+Pure functions over numpy arrays in SI units. A cable is reduced to its per-metre resistance R',
+inductance L', conductance G' and capacitance C' at each frequency; from those, the complex
+characteristic impedance and propagation constant follow (`line_constants`).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.optimize import nnls
+
+MU_0 = 4e-7 * np.pi  # H/m (the exact pre-2019 value; the 2019 SI value differs by 1e-10)
+EPSILON_0 = 8.8541878128e-12  # F/m, CODATA 2018
+SPEED_OF_LIGHT = 299_792_458.0  # m/s, exact
+
+# Conductivities at 20 degC [S/m]; source: CRC Handbook of Chemistry and Physics, table of
+# electrical resistivity of pure metals (copper 1.72e-8, aluminium 2.65e-8 ohm m), and
+# IACS definition for annealed copper (58.0 MS/m). Copper-clad steel: the skin depth at HF is
+# inside the copper cladding, so it behaves as copper (common practice).
+CONDUCTIVITY_S_PER_M = {
+    "copper": 5.80e7,
+    "copper-clad steel": 5.80e7,
+    "copper-clad aluminium": 5.80e7,
+    "aluminium": 3.77e7,
+    "silver-plated copper": 6.17e7,
+}
+
+
+def surface_resistance_ohm(frequency_hz, conductivity_s_per_m, relative_permeability=1.0):
+    """Surface resistance of a good conductor in the skin-effect regime.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz].
+    conductivity_s_per_m : float
+        Conductivity [S/m].
+    relative_permeability : float
+        Relative permeability of the conductor [1].
+
+    Returns
+    -------
+    ndarray
+        Surface resistance Rs = sqrt(pi f mu / sigma) [ohm].
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 1.7 (good conductors, surface resistance).
+    """
+    frequency_hz = np.asarray(frequency_hz, dtype=float)
+    return np.sqrt(np.pi * frequency_hz * MU_0 * relative_permeability / conductivity_s_per_m)
+
+
+@dataclass(frozen=True)
+class Rlgc:
+    """Per-metre line constants at each frequency: R' [ohm/m], L' [H/m], G' [S/m], C' [F/m]."""
+
+    r_ohm_per_m: np.ndarray
+    l_h_per_m: np.ndarray
+    g_s_per_m: np.ndarray
+    c_f_per_m: np.ndarray
+
+
+def coax_rlgc(frequency_hz, inner_diameter_m, dielectric_diameter_m, relative_permittivity,
+              loss_tangent, inner_conductivity_s_per_m, outer_conductivity_s_per_m,
+              inner_factor=1.0, outer_factor=1.0) -> Rlgc:
+    """Per-metre constants of a coaxial line from its geometry, in the skin-effect regime.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz].
+    inner_diameter_m : float
+        Diameter of the inner conductor, d [m].
+    dielectric_diameter_m : float
+        Diameter over the dielectric (inside of the outer conductor), D [m].
+    relative_permittivity : float
+        Relative permittivity of the dielectric [1].
+    loss_tangent : float
+        Loss tangent of the dielectric [1].
+    inner_conductivity_s_per_m, outer_conductivity_s_per_m : float
+        Conductivity of each conductor [S/m].
+    inner_factor, outer_factor : float
+        Resistance of the real conductor over a smooth solid one (stranding, braid) [1].
+
+    Returns
+    -------
+    Rlgc
+        R' = Rs_i k_i/(pi d) + Rs_o k_o/(pi D); L' = mu0/(2 pi) ln(D/d) + R'/omega (the internal
+        inductance of a skin-effect conductor has a reactance equal to its resistance);
+        C' = 2 pi eps0 eps_r / ln(D/d); G' = omega C' tan(delta).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.1, Table 2.1 (coaxial line parameters);
+    Ramo, Whinnery and Van Duzer, Fields and Waves in Communication Electronics, 3rd ed.,
+    section 5.6 (internal impedance of a conductor in the skin-effect regime).
+    """
+    frequency_hz = np.asarray(frequency_hz, dtype=float)
+    omega = 2 * np.pi * frequency_hz
+    log_ratio = np.log(dielectric_diameter_m / inner_diameter_m)
+    r = (surface_resistance_ohm(frequency_hz, inner_conductivity_s_per_m) * inner_factor / (np.pi * inner_diameter_m)
+         + surface_resistance_ohm(frequency_hz, outer_conductivity_s_per_m) * outer_factor / (np.pi * dielectric_diameter_m))
+    l_ext = MU_0 / (2 * np.pi) * log_ratio
+    c = 2 * np.pi * EPSILON_0 * relative_permittivity / log_ratio
+    return Rlgc(r, l_ext + r / omega, omega * c * loss_tangent, np.broadcast_to(c, frequency_hz.shape))
+
+
+def two_wire_rlgc(frequency_hz, wire_diameter_m, spacing_m, relative_permittivity, loss_tangent,
+                  conductivity_s_per_m, conductor_factor=1.0) -> Rlgc:
+    """Per-metre constants of a parallel two-wire line from its geometry, in the skin-effect regime.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz].
+    wire_diameter_m : float
+        Diameter of each wire, d [m].
+    spacing_m : float
+        Centre-to-centre spacing, D [m]; must exceed d.
+    relative_permittivity : float
+        Effective relative permittivity around the wires, 1/VF^2 [1].
+    loss_tangent : float
+        Effective loss tangent of that dielectric [1].
+    conductivity_s_per_m : float
+        Conductivity of the wires [S/m].
+    conductor_factor : float
+        Resistance of the real wire over a smooth solid one (stranding) [1].
+
+    Returns
+    -------
+    Rlgc
+        With x = D/d: L' = (mu0/pi) acosh(x) + R'/omega; C' = pi eps0 eps_r / acosh(x);
+        R' = 2 Rs k/(pi d) * x/sqrt(x^2 - 1) (both wires, with the proximity effect of the
+        exact two-cylinder current distribution); G' = omega C' tan(delta).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.1, Table 2.1 (two-wire line parameters);
+    Ramo, Whinnery and Van Duzer, Fields and Waves in Communication Electronics, 3rd ed.,
+    problem on the parallel-wire line (proximity factor x/sqrt(x^2-1)), from memory.
+    """
+    frequency_hz = np.asarray(frequency_hz, dtype=float)
+    omega = 2 * np.pi * frequency_hz
+    x = spacing_m / wire_diameter_m
+    arc = np.arccosh(x)
+    proximity = x / np.sqrt(x * x - 1.0)
+    r = 2 * surface_resistance_ohm(frequency_hz, conductivity_s_per_m) * conductor_factor / (np.pi * wire_diameter_m) * proximity
+    l_ext = MU_0 / np.pi * arc
+    c = np.pi * EPSILON_0 * relative_permittivity / arc
+    return Rlgc(r, l_ext + r / omega, omega * c * loss_tangent, np.broadcast_to(c, frequency_hz.shape))
+
+
+def fitted_rlgc(frequency_hz, z0_nominal_ohm, velocity_factor, k_conductor, k_dielectric) -> Rlgc:
+    """Per-metre constants from a nominal impedance, velocity factor and fitted attenuation terms.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz].
+    z0_nominal_ohm : float
+        Nominal (high-frequency, lossless) characteristic impedance [ohm].
+    velocity_factor : float
+        Velocity factor [1].
+    k_conductor : float
+        Conductor term of the matched attenuation, a_c = k_conductor * sqrt(f) [Np/m/sqrt(Hz)].
+    k_dielectric : float
+        Dielectric term of the matched attenuation, a_d = k_dielectric * f [Np/m/Hz].
+
+    Returns
+    -------
+    Rlgc
+        L' = Z0/(VF c), C' = 1/(Z0 VF c); R' = 2 Z0 a_c and G' = 2 a_d / Z0 (the low-loss relations
+        a_c = R'/(2 Z0), a_d = G' Z0/2); L' also carries the internal inductance R'/omega of a
+        skin-effect conductor.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.7 (the low-loss line, attenuation terms);
+    Ramo, Whinnery and Van Duzer, 3rd ed., section 5.6 (internal impedance).
+    """
+    frequency_hz = np.asarray(frequency_hz, dtype=float)
+    omega = 2 * np.pi * frequency_hz
+    velocity = velocity_factor * SPEED_OF_LIGHT
+    r = 2 * z0_nominal_ohm * k_conductor * np.sqrt(frequency_hz)
+    g = 2 * k_dielectric * frequency_hz / z0_nominal_ohm
+    l_ext = z0_nominal_ohm / velocity
+    c = 1.0 / (z0_nominal_ohm * velocity)
+    return Rlgc(r, l_ext + r / omega, g, np.broadcast_to(c, frequency_hz.shape))
+
+
+def line_constants(frequency_hz, rlgc: Rlgc):
+    """Complex characteristic impedance and propagation constant from per-metre constants.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz].
+    rlgc : Rlgc
+        Per-metre constants at the same frequencies.
+
+    Returns
+    -------
+    z0_ohm : ndarray of complex
+        Z0 = sqrt((R' + j omega L') / (G' + j omega C')) [ohm].
+    gamma : ndarray of complex
+        gamma = sqrt((R' + j omega L')(G' + j omega C')) = alpha + j beta [1/m].
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.1, equations (2.5) and (2.7).
+    """
+    omega = 2 * np.pi * np.asarray(frequency_hz, dtype=float)
+    z = rlgc.r_ohm_per_m + 1j * omega * rlgc.l_h_per_m
+    y = rlgc.g_s_per_m + 1j * omega * rlgc.c_f_per_m
+    # principal square roots: with R', G' >= 0 both results lie in the right half-plane
+    return np.sqrt(z / y), np.sqrt(z * y)
+
+
+def fit_attenuation(frequency_hz, attenuation_np_per_m):
+    """Fit a(f) = k_c sqrt(f) + k_d f, both terms non-negative, to matched-attenuation points.
+
+    The fit minimises the relative error (each point weighted by 1/a), so that the few-tenths-dB
+    figures at HF count as much as the large ones at UHF.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequencies of the points [Hz], positive.
+    attenuation_np_per_m : array_like
+        Matched attenuation at those frequencies [Np/m], positive.
+
+    Returns
+    -------
+    k_conductor : float
+        [Np/m/sqrt(Hz)]
+    k_dielectric : float
+        [Np/m/Hz]
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.7: conductor loss grows as the surface
+    resistance (sqrt f), dielectric loss as omega tan(delta) (f). Non-negative least squares:
+    Lawson and Hanson, Solving Least Squares Problems (1974), as in scipy.optimize.nnls.
+    """
+    f = np.asarray(frequency_hz, dtype=float)
+    a = np.asarray(attenuation_np_per_m, dtype=float)
+    design = np.column_stack([np.sqrt(f), f]) / a[:, None]
+    (k_conductor, k_dielectric), _ = nnls(design, np.ones_like(a))
+    return float(k_conductor), float(k_dielectric)
+
+
+@dataclass(frozen=True)
+class Cable:
+    """A cable reduced to what the line model needs, with where its data are valid.
+
+    ``rlgc_model`` is ``"fit"`` (nominal Z0 and VF with the fitted attenuation terms),
+    ``"coax"`` or ``"two-wire"`` (geometry; parameters in ``geometry``).
+    """
+
+    id: str
+    description: str
+    kind: str  # "coax" or "balanced"
+    z0_nominal_ohm: float
+    velocity_factor: float
+    k_conductor: float = 0.0
+    k_dielectric: float = 0.0
+    data_range_hz: tuple[float, float] = (0.0, np.inf)
+    max_voltage_v: float | None = None
+    rlgc_model: str = "fit"
+    geometry: dict = field(default_factory=dict, compare=False, hash=False)
+
+    def rlgc(self, frequency_hz) -> Rlgc:
+        """Per-metre constants at ``frequency_hz`` [Hz]."""
+        if self.rlgc_model == "coax":
+            return coax_rlgc(frequency_hz, **self.geometry)
+        if self.rlgc_model == "two-wire":
+            return two_wire_rlgc(frequency_hz, **self.geometry)
+        return fitted_rlgc(frequency_hz, self.z0_nominal_ohm, self.velocity_factor,
+                           self.k_conductor, self.k_dielectric)
+
+    def constants(self, frequency_hz):
+        """Characteristic impedance [ohm] and propagation constant [1/m] at ``frequency_hz``."""
+        return line_constants(frequency_hz, self.rlgc(frequency_hz))
+
+    def matched_loss_db_per_m(self, frequency_hz):
+        """Matched attenuation [dB/m]: 20 log10(e) Re(gamma)."""
+        _, gamma = self.constants(frequency_hz)
+        return 20 * np.log10(np.e) * gamma.real
+
+
+def cable_from_points(id, description, kind, z0_nominal_ohm, velocity_factor, frequency_hz,
+                      loss_db_per_m, max_voltage_v=None) -> Cable:
+    """Build a fitted `Cable` from matched-loss points [Hz], [dB/m]."""
+    np_per_m = np.asarray(loss_db_per_m, dtype=float) / (20 * np.log10(np.e))
+    k_c, k_d = fit_attenuation(frequency_hz, np_per_m)
+    f = np.asarray(frequency_hz, dtype=float)
+    return Cable(id=id, description=description, kind=kind, z0_nominal_ohm=z0_nominal_ohm,
+                 velocity_factor=velocity_factor, k_conductor=k_c, k_dielectric=k_d,
+                 data_range_hz=(float(f.min()), float(f.max())), max_voltage_v=max_voltage_v)
+
+
+def coax_from_geometry(id, description, inner_diameter_m, dielectric_diameter_m, relative_permittivity,
+                       loss_tangent, inner_material="copper", outer_material="copper",
+                       inner_factor=1.0, outer_factor=1.0, max_voltage_v=None) -> Cable:
+    """Build a geometry `Cable` for a coax; nominal Z0 = 60/sqrt(eps_r) ln(D/d), VF = 1/sqrt(eps_r).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., Table 2.1 (lossless limit of the coax parameters).
+    """
+    geometry = dict(inner_diameter_m=inner_diameter_m, dielectric_diameter_m=dielectric_diameter_m,
+                    relative_permittivity=relative_permittivity, loss_tangent=loss_tangent,
+                    inner_conductivity_s_per_m=CONDUCTIVITY_S_PER_M[inner_material],
+                    outer_conductivity_s_per_m=CONDUCTIVITY_S_PER_M[outer_material],
+                    inner_factor=inner_factor, outer_factor=outer_factor)
+    eta0 = np.sqrt(MU_0 / EPSILON_0)
+    z0 = eta0 / (2 * np.pi * np.sqrt(relative_permittivity)) * np.log(dielectric_diameter_m / inner_diameter_m)
+    return Cable(id=id, description=description, kind="coax", z0_nominal_ohm=float(z0),
+                 velocity_factor=float(1 / np.sqrt(relative_permittivity)), max_voltage_v=max_voltage_v,
+                 rlgc_model="coax", geometry=geometry)
+
+
+def two_wire_from_geometry(id, description, wire_diameter_m, spacing_m, relative_permittivity=1.0,
+                           loss_tangent=0.0, material="copper", conductor_factor=1.0,
+                           max_voltage_v=None) -> Cable:
+    """Build a geometry `Cable` for a two-wire line; nominal Z0 = (eta0/pi)/sqrt(eps_r) acosh(D/d).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., Table 2.1; the trade form 120/sqrt(eps_r) acosh(D/d)
+    (ARRL Antenna Book, transmission-line chapter).
+    """
+    geometry = dict(wire_diameter_m=wire_diameter_m, spacing_m=spacing_m,
+                    relative_permittivity=relative_permittivity, loss_tangent=loss_tangent,
+                    conductivity_s_per_m=CONDUCTIVITY_S_PER_M[material], conductor_factor=conductor_factor)
+    eta0 = np.sqrt(MU_0 / EPSILON_0)
+    z0 = eta0 / (np.pi * np.sqrt(relative_permittivity)) * np.arccosh(spacing_m / wire_diameter_m)
+    return Cable(id=id, description=description, kind="balanced", z0_nominal_ohm=float(z0),
+                 velocity_factor=float(1 / np.sqrt(relative_permittivity)), max_voltage_v=max_voltage_v,
+                 rlgc_model="two-wire", geometry=geometry)

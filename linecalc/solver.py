@@ -1,0 +1,109 @@
+"""Chain-matrix cascade and power flow along the feed path, over numpy arrays.
+
+Nodes are numbered from the radio (0) to the antenna (n), element k sits between node k and
+node k + 1. Voltages and currents are RMS phasors, so net power is Re(V I*).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class PathSolution:
+    """Voltage, current and power at every node, dissipation in every element.
+
+    Shapes: nodes (..., n + 1, nf), elements (..., n, nf); node 0 is the radio end.
+    """
+
+    voltage_v: np.ndarray
+    current_a: np.ndarray
+    power_w: np.ndarray
+    dissipated_w: np.ndarray
+
+
+def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSolution:
+    """Cascade the elements from the antenna back to the radio and scale to the radio's power.
+
+    Parameters
+    ----------
+    abcd_list : sequence of ndarray, each (..., nf, 2, 2)
+        Chain matrices from the radio to the antenna; leading axes broadcast.
+    rho_load : array_like of complex, (..., nf)
+        Reflection coefficient of the antenna against ``z_ref_load_ohm`` (so that an open,
+        rho = 1, and a short, rho = -1, need no infinite impedance).
+    z_ref_load_ohm : float
+        Real reference impedance of ``rho_load`` [ohm].
+    radio_power_w : float
+        Net power into the path at the radio end [W].
+
+    Returns
+    -------
+    PathSolution
+
+    Notes
+    -----
+    At the antenna V = 1 + rho, I = (1 - rho)/Z_ref; each element maps its output to its input,
+    [V_in, I_in] = ABCD [V_out, I_out]. Net power P = Re(V I*) at every node; all phasors are then
+    scaled by sqrt(P_radio / P_0). Element k dissipates P_k - P_(k+1), so the energy balance
+    P_radio = P_antenna + sum(dissipated) holds by construction to rounding.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
+    """
+    rho_load = np.asarray(rho_load, dtype=complex)
+    state = np.stack([1 + rho_load, (1 - rho_load) / z_ref_load_ohm], -1)
+    states = [state]
+    for abcd in reversed(abcd_list):
+        state = (abcd @ state[..., None])[..., 0]
+        states.append(state)
+    shape = np.broadcast_shapes(*(s.shape for s in states))
+    nodes = np.stack([np.broadcast_to(s, shape) for s in reversed(states)], -3)  # (..., n+1, nf, 2)
+    voltage, current = nodes[..., 0], nodes[..., 1]
+    power_raw = (voltage * current.conj()).real
+    scale = np.sqrt(radio_power_w / power_raw[..., :1, :])
+    voltage, current = voltage * scale, current * scale
+    power = power_raw * scale**2
+    return PathSolution(voltage, current, power, power[..., :-1, :] - power[..., 1:, :])
+
+
+def reflection(voltage_v, current_a, z0_ohm):
+    """Voltage reflection coefficient rho = (V - Z0 I)/(V + Z0 I) of the node state against Z0.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.3 (rho = (ZL - Z0)/(ZL + Z0), written in V and I).
+    """
+    return (voltage_v - z0_ohm * current_a) / (voltage_v + z0_ohm * current_a)
+
+
+def swr_from_rho(rho):
+    """SWR = (1 + |rho|)/(1 - |rho|); infinite where |rho| >= 1 (a short, an open or a pure reactance).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.3, equation (2.41).
+    """
+    magnitude = np.abs(rho)
+    inside = magnitude < 1
+    return np.where(inside, (1 + magnitude) / np.where(inside, 1 - magnitude, 1.0), np.inf)
+
+
+def wave_powers(voltage_v, current_a, z_ref_ohm):
+    """Forward and reflected power against a real reference, as a directional coupler reads them.
+
+    Returns
+    -------
+    forward_w, reflected_w : ndarray
+        |V + Z I|^2 / (4 Z) and |V - Z I|^2 / (4 Z); their difference is Re(V I*) exactly.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.3 (incident and reflected waves on a line
+    of real characteristic impedance).
+    """
+    forward = np.abs(voltage_v + z_ref_ohm * current_a) ** 2 / (4 * z_ref_ohm)
+    reflected = np.abs(voltage_v - z_ref_ohm * current_a) ** 2 / (4 * z_ref_ohm)
+    return forward, reflected
