@@ -1,0 +1,191 @@
+"""The orchestrator: a Station in, a BudgetResult per band or frequency out.
+
+It composes the physics below (elements, solver, loads) in a short linear list of stages and
+holds no formulas of its own.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .loads import ImpedanceTable, SwrTable, rho_from_impedance
+from .solver import PathSolution, reflection, solve_path, swr_from_rho
+
+# Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
+# converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
+# least/most loss to a few thousandths of a dB.
+PHASE_SAMPLES = 180
+
+
+@dataclass(frozen=True)
+class Station:
+    """A validated station in SI units, ready to solve.
+
+    ``feed`` is ordered from the radio to the antenna; ``labels`` name each requested row
+    (band name or frequency) and ``frequency_hz`` gives its frequency.
+    """
+
+    name: str
+    radio_power_w: float
+    reference_impedance_ohm: float
+    labels: tuple[str, ...]
+    frequency_hz: np.ndarray
+    antenna: ImpedanceTable | SwrTable
+    feed: tuple = ()
+    region: int = 2
+
+
+@dataclass(frozen=True)
+class ElementBudget:
+    """One element's share of the budget, per row: loss [dB], heat [W], SWR at each port."""
+
+    kind: str
+    label: str
+    loss_db: np.ndarray
+    matched_loss_db: np.ndarray
+    dissipated_w: np.ndarray
+    swr_in: np.ndarray
+    swr_out: np.ndarray
+
+
+@dataclass(frozen=True)
+class BudgetResult:
+    """The loss budget of a station, one entry per row (band or frequency) in every array.
+
+    Impedances are null (None) for an SWR-only antenna, whose phase is unknown; its powers and
+    losses are averages over that phase and ``total_loss_db_range`` gives least and most.
+    """
+
+    station: str
+    reference_impedance_ohm: float
+    radio_power_w: float
+    labels: tuple[str, ...]
+    frequency_hz: np.ndarray
+    swr_antenna: np.ndarray
+    swr_radio: np.ndarray
+    z_antenna_ohm: np.ndarray | None
+    z_radio_ohm: np.ndarray | None
+    matched_loss_db: np.ndarray
+    mismatch_loss_db: np.ndarray
+    total_loss_db: np.ndarray
+    power_radio_w: np.ndarray
+    power_antenna_w: np.ndarray
+    elements: tuple[ElementBudget, ...]
+    total_loss_db_range: np.ndarray | None = None
+    warnings: tuple[str, ...] = ()
+    solution: PathSolution | None = field(default=None, repr=False)
+
+
+def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
+    """Reflection coefficient of the antenna against ``z_ref_ohm``: (nf,), or (phases, nf) if SWR-only."""
+    if isinstance(antenna, ImpedanceTable):
+        return rho_from_impedance(antenna.impedance_at(frequency_hz), z_ref_ohm)
+    phase = np.exp(2j * np.pi * np.arange(PHASE_SAMPLES) / PHASE_SAMPLES)
+    return antenna.rho_magnitude_at(frequency_hz)[None, :] * phase[:, None]
+
+
+def _port_swr(solution, feed, frequency_hz, swr_only):
+    """SWR at each element's input and output against that element's own impedances.
+
+    For an SWR-only antenna, the SWR of the phase-mean |rho| at each port.
+    """
+    swr_in, swr_out = [], []
+    for k, element in enumerate(feed):
+        z_in, z_out = element.port_z0_ohm(frequency_hz)
+        for node, z0, out in ((k, z_in, swr_in), (k + 1, z_out, swr_out)):
+            rho = reflection(solution.voltage_v[..., node, :], solution.current_a[..., node, :], z0)
+            out.append(swr_from_rho(np.abs(rho).mean(axis=0) if swr_only else rho))
+    return swr_in, swr_out
+
+
+def _range_warnings(feed, frequency_hz, labels):
+    """A warning for every cable used outside the frequency span of its data."""
+    warnings = []
+    for element in feed:
+        cable = getattr(element, "cable", None)
+        if cable is None:
+            continue
+        low, high = cable.data_range_hz
+        outside = [label for label, f in zip(labels, frequency_hz) if f < low or f > high]
+        if outside:
+            warnings.append(f"cable {cable.id} has data from {low / 1e6:g} to {high / 1e6:g} MHz; "
+                            f"{', '.join(outside)} lie outside and are extrapolated by its loss model")
+    return warnings
+
+
+def _phase_mean(values, swr_only):
+    """Average over the unknown-phase axis of an SWR-only antenna (a no-op otherwise)."""
+    return values.mean(axis=0) if swr_only else values
+
+
+def solve_budget(station: Station) -> BudgetResult:
+    """Solve the station's feed path at every requested frequency and split the losses.
+
+    Stages: antenna reflection -> chain matrices -> path solution -> per-element shares ->
+    matched, mismatch and total loss. For an SWR-only antenna every stage carries an extra
+    leading axis of load phases; powers and dissipations are then averaged over it.
+
+    Parameters
+    ----------
+    station : Station
+
+    Returns
+    -------
+    BudgetResult
+    """
+    f = np.asarray(station.frequency_hz, dtype=float)
+    z_ref = station.reference_impedance_ohm
+    swr_only = isinstance(station.antenna, SwrTable)
+
+    rho_antenna = _antenna_rho(station.antenna, f, z_ref)
+    abcd_list = [element.abcd(f) for element in station.feed]
+    solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
+
+    swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
+    rho_radio = reflection(solution.voltage_v[..., 0, :], solution.current_a[..., 0, :], z_ref)
+    power_w = _phase_mean(solution.power_w, swr_only)
+    dissipated_w = _phase_mean(solution.dissipated_w, swr_only)
+
+    elements = []
+    for k, element in enumerate(station.feed):
+        elements.append(ElementBudget(
+            kind=element.kind, label=element.label,
+            loss_db=10 * np.log10(power_w[k] / power_w[k + 1]),
+            matched_loss_db=np.broadcast_to(element.matched_loss_db(f), f.shape),
+            dissipated_w=dissipated_w[k],
+            swr_in=swr_in[k], swr_out=swr_out[k],
+        ))
+
+    if station.feed:
+        swr_antenna = elements[-1].swr_out
+    else:
+        swr_antenna = swr_from_rho(np.abs(rho_antenna).mean(axis=0) if swr_only else rho_antenna)
+    power_radio, power_antenna = power_w[0], power_w[-1]
+    total_loss_db = 10 * np.log10(power_radio / power_antenna)
+    matched_loss_db = sum((e.matched_loss_db for e in elements), np.zeros_like(f))
+    loss_range = None
+    if swr_only:
+        per_phase = 10 * np.log10(solution.power_w[:, 0, :] / solution.power_w[:, -1, :])
+        loss_range = np.stack([per_phase.min(axis=0), per_phase.max(axis=0)], -1)
+
+    return BudgetResult(
+        station=station.name, reference_impedance_ohm=z_ref, radio_power_w=station.radio_power_w,
+        labels=tuple(station.labels), frequency_hz=f,
+        swr_antenna=swr_antenna,
+        swr_radio=swr_from_rho(np.abs(rho_radio).mean(axis=0)) if swr_only else swr_from_rho(rho_radio),
+        z_antenna_ohm=None if swr_only else _impedance(solution, -1),
+        z_radio_ohm=None if swr_only else _impedance(solution, 0),
+        matched_loss_db=matched_loss_db, mismatch_loss_db=total_loss_db - matched_loss_db,
+        total_loss_db=total_loss_db, power_radio_w=power_radio, power_antenna_w=power_antenna,
+        elements=tuple(elements), total_loss_db_range=loss_range,
+        warnings=tuple(_range_warnings(station.feed, f, station.labels)), solution=solution,
+    )
+
+
+def _impedance(solution, node):
+    """Impedance V/I at a node [ohm]; infinite where no current flows (an open)."""
+    voltage = solution.voltage_v[..., node, :]
+    current = solution.current_a[..., node, :]
+    open_circuit = current == 0
+    return np.where(open_circuit, np.inf, voltage / np.where(open_circuit, 1.0, current))

@@ -1,0 +1,87 @@
+"""The `linecalc` command: parse arguments, call the library, render, map errors to exit codes.
+
+Exit status: 0 success (warnings on stderr), 2 bad input or usage, 1 an internal error.
+"""
+from __future__ import annotations
+
+import argparse
+import sys
+
+EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
+
+# Frequencies of the `cables` listing [Hz]: 80 m, 20 m, 10 m, 2 m and 70 cm.
+LISTING_FREQUENCIES_HZ = (3.6e6, 14.2e6, 28.5e6, 146e6, 435e6)
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that exits with status 2 and one line on a usage error (its default, made explicit)."""
+
+    def error(self, message):
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: {message}\n")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="linecalc", description="Feedline and station loss budgets, band by band.")
+    commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
+
+    budget = commands.add_parser("budget", help="SWR at both ends, losses and watts at the antenna, per band")
+    budget.add_argument("station", help="station file (YAML)")
+    budget.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                        help="output format (default: table)")
+
+    cables = commands.add_parser("cables", help="list the cable library with its matched loss")
+    cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+    return parser
+
+
+def _run_budget(args) -> int:
+    from . import report
+    from .budget import solve_budget
+    from .station import load_station
+
+    result = solve_budget(load_station(args.station))
+    render = {"table": report.budget_table, "json": report.budget_json, "csv": report.budget_csv}[args.format]
+    sys.stdout.write(render(result))
+    for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+    return EXIT_OK
+
+
+def _run_cables(args) -> int:
+    import json
+
+    import numpy as np
+
+    from . import library, report
+
+    cables = library.load_library()
+    frequency_hz = np.array(LISTING_FREQUENCIES_HZ)
+    rows = [(c.id, c.kind, c.z0_nominal_ohm, c.velocity_factor, c.description, c.matched_loss_db_per_m(frequency_hz))
+            for c in cables.values()]
+    if args.format == "json":
+        doc = [{"id": r[0], "kind": r[1], "z0_ohm": r[2], "velocity_factor": r[3], "description": r[4],
+                "loss_db_per_100m": {f"{f:g}": 100 * float(l) for f, l in zip(frequency_hz, r[5])}} for r in rows]
+        sys.stdout.write(json.dumps(doc, indent=2) + "\n")
+    else:
+        sys.stdout.write(report.cables_table(rows, frequency_hz))
+    return EXIT_OK
+
+
+def main(argv=None) -> int:
+    args = build_parser().parse_args(argv)
+    from .station import StationError
+
+    try:
+        return {"budget": _run_budget, "cables": _run_cables}[args.command](args)
+    except StationError as exc:
+        print(str(exc), file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except BrokenPipeError:
+        return EXIT_OK
+    except Exception as exc:  # the promise of exit status 1: an internal error, reported in one line
+        print(f"linecalc: internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":
+    sys.exit(main())

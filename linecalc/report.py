@@ -1,0 +1,136 @@
+"""Render results as text: tables (tabulate), the JSON document of DESIGN.md, and CSV."""
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+
+import numpy as np
+from tabulate import tabulate
+
+from .budget import BudgetResult
+
+SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
+                 "radio-end SWR are averages over every phase, and the loss range shows least and most.")
+
+
+def _finite_or_none(value):
+    """A float for JSON, or None where it is infinite or undefined (JSON has no infinity)."""
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
+def _pair(z):
+    if z is None:
+        return None
+    return [_finite_or_none(z.real), _finite_or_none(z.imag)]
+
+
+def budget_document(result: BudgetResult) -> dict:
+    """The budget as the JSON document fixed in DESIGN.md (plus ``total_loss_db_range``)."""
+    rows = []
+    for i, label in enumerate(result.labels):
+        row = {
+            "label": label,
+            "frequency_hz": float(result.frequency_hz[i]),
+            "swr_antenna": _finite_or_none(result.swr_antenna[i]),
+            "swr_radio": _finite_or_none(result.swr_radio[i]),
+            "z_antenna_ohm": _pair(None if result.z_antenna_ohm is None else result.z_antenna_ohm[i]),
+            "z_radio_ohm": _pair(None if result.z_radio_ohm is None else result.z_radio_ohm[i]),
+            "matched_loss_db": float(result.matched_loss_db[i]),
+            "mismatch_loss_db": float(result.mismatch_loss_db[i]),
+            "total_loss_db": float(result.total_loss_db[i]),
+            "power_radio_w": float(result.power_radio_w[i]),
+            "power_antenna_w": float(result.power_antenna_w[i]),
+            "elements": [
+                {"kind": e.kind, "label": e.label, "loss_db": float(e.loss_db[i]),
+                 "matched_loss_db": float(e.matched_loss_db[i]), "dissipated_w": float(e.dissipated_w[i]),
+                 "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i])}
+                for e in result.elements
+            ],
+        }
+        if result.total_loss_db_range is not None:
+            row["total_loss_db_range"] = [float(v) for v in result.total_loss_db_range[i]]
+        rows.append(row)
+    return {
+        "station": result.station,
+        "reference_impedance_ohm": float(result.reference_impedance_ohm),
+        "radio_power_w": float(result.radio_power_w),
+        "rows": rows,
+        "warnings": list(result.warnings),
+    }
+
+
+def budget_json(result: BudgetResult) -> str:
+    return json.dumps(budget_document(result), indent=2, allow_nan=False) + "\n"
+
+
+def _swr_text(swr):
+    return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
+
+
+def budget_table(result: BudgetResult) -> str:
+    """One row per band or frequency, with the path's losses and the watts that reach the antenna."""
+    headers = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB",
+               "total loss dB", "antenna W", "path heat W"]
+    swr_only = result.total_loss_db_range is not None
+    if swr_only:
+        headers.append("loss range dB")
+    body = []
+    for i, label in enumerate(result.labels):
+        row = [label, f"{result.frequency_hz[i] / 1e6:.4g}", _swr_text(result.swr_antenna[i]), _swr_text(result.swr_radio[i]),
+               f"{result.matched_loss_db[i]:.2f}", f"{result.mismatch_loss_db[i]:.2f}", f"{result.total_loss_db[i]:.2f}",
+               f"{result.power_antenna_w[i]:.1f}", f"{result.power_radio_w[i] - result.power_antenna_w[i]:.1f}"]
+        if swr_only:
+            low, high = result.total_loss_db_range[i]
+            row.append(f"{low:.2f} to {high:.2f}")
+        body.append(row)
+    lines = [f"{result.station}: {result.radio_power_w:g} W from the radio, "
+             f"SWR at the radio against {result.reference_impedance_ohm:g} ohm", ""]
+    lines.append(tabulate(body, headers=headers, disable_numparse=True, stralign="right"))
+    element_rows = [[e.kind, e.label] + [f"{e.loss_db[i]:.2f} dB / {e.dissipated_w[i]:.1f} W" for i in range(len(result.labels))]
+                    for e in result.elements]
+    if element_rows:
+        lines += ["", "Loss and heat in each element:",
+                  tabulate(element_rows, headers=["element", "label", *result.labels], disable_numparse=True)]
+    if swr_only:
+        lines += ["", SWR_ONLY_NOTE]
+    return "\n".join(lines) + "\n"
+
+
+def budget_csv(result: BudgetResult) -> str:
+    """A flat table: one line per row, the JSON fields plus each element's loss and heat."""
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    header = ["label", "frequency_hz", "swr_antenna", "swr_radio", "z_antenna_r_ohm", "z_antenna_x_ohm",
+              "z_radio_r_ohm", "z_radio_x_ohm", "matched_loss_db", "mismatch_loss_db", "total_loss_db",
+              "power_radio_w", "power_antenna_w"]
+    for e in result.elements:
+        header += [f"{e.label}:loss_db", f"{e.label}:dissipated_w"]
+    writer.writerow(header)
+    for i, label in enumerate(result.labels):
+        z_a = result.z_antenna_ohm[i] if result.z_antenna_ohm is not None else complex(np.nan, np.nan)
+        z_r = result.z_radio_ohm[i] if result.z_radio_ohm is not None else complex(np.nan, np.nan)
+        row = [label, result.frequency_hz[i], result.swr_antenna[i], result.swr_radio[i], z_a.real, z_a.imag,
+               z_r.real, z_r.imag, result.matched_loss_db[i], result.mismatch_loss_db[i], result.total_loss_db[i],
+               result.power_radio_w[i], result.power_antenna_w[i]]
+        for e in result.elements:
+            row += [e.loss_db[i], e.dissipated_w[i]]
+        writer.writerow(["" if isinstance(v, float) and math.isnan(v) else (f"{v:.10g}" if not isinstance(v, str) else v)
+                         for v in row])
+    return buffer.getvalue()
+
+
+def cables_table(rows, frequencies_hz) -> str:
+    """The cable library: id, kind, impedance, velocity factor and matched loss at a few frequencies.
+
+    ``rows`` holds (id, kind, z0_ohm, velocity_factor, description, loss_db_per_m array).
+    """
+    headers = ["id", "kind", "Z0 ohm", "VF"] + [f"{f / 1e6:g} MHz" for f in frequencies_hz] + ["description"]
+    body = []
+    for cable_id, kind, z0, vf, description, loss_db_per_m in rows:
+        cells = [f"{100 * l:.2f} / {100 * 0.3048 * l:.2f}" for l in loss_db_per_m]
+        body.append([cable_id, kind, f"{z0:.0f}", f"{vf:.2f}", *cells, description])
+    return ("Matched loss in dB per 100 m / per 100 ft\n\n"
+            + tabulate(body, headers=headers, disable_numparse=True) + "\n")
