@@ -12,15 +12,68 @@ import numpy as np
 EDGE_TOLERANCE = 1e-9
 
 
+def _end_slope(h0, h1, delta0, delta1):
+    """One-sided three-point slope at an end of a PCHIP, kept shape-preserving."""
+    slope = ((2 * h0 + h1) * delta0 - h0 * delta1) / (h0 + h1)
+    if np.sign(slope) != np.sign(delta0):
+        return 0.0
+    if np.sign(delta0) != np.sign(delta1) and abs(slope) > abs(3 * delta0):
+        return 3 * delta0
+    return slope
+
+
+def pchip_slopes(x, y):
+    """Slopes of the shape-preserving piecewise-cubic Hermite interpolant at its knots.
+
+    Parameters
+    ----------
+    x : ndarray, shape (n,)
+        Strictly increasing knots, n >= 2.
+    y : ndarray, shape (n,)
+        Values at the knots.
+
+    Returns
+    -------
+    ndarray, shape (n,)
+        Interior slopes are the weighted harmonic mean of the neighbouring secants (zero where
+        they change sign); end slopes the one-sided three-point formula, limited.
+
+    References
+    ----------
+    Fritsch and Carlson, Monotone piecewise cubic interpolation, SIAM J. Numer. Anal. 17 (1980)
+    238-246; Moler, Numerical Computing with MATLAB (2004), section 3.4 (pchip), whose end
+    conditions this follows.
+    """
+    h = np.diff(x)
+    delta = np.diff(y) / h
+    if x.size == 2:
+        return np.array([delta[0], delta[0]])
+    slopes = np.zeros_like(y)
+    w1 = 2 * h[1:] + h[:-1]
+    w2 = h[1:] + 2 * h[:-1]
+    same_sign = delta[:-1] * delta[1:] > 0
+    safe_prev = np.where(same_sign, delta[:-1], 1.0)
+    safe_next = np.where(same_sign, delta[1:], 1.0)
+    slopes[1:-1] = np.where(same_sign, (w1 + w2) / (w1 / safe_prev + w2 / safe_next), 0.0)
+    slopes[0] = _end_slope(h[0], h[1], delta[0], delta[1])
+    slopes[-1] = _end_slope(h[-1], h[-2], delta[-1], delta[-2])
+    return slopes
+
+
 def _interpolate(table_hz, values, at_hz):
-    """Shape-preserving piecewise-cubic (PCHIP) interpolation; exact at a one-point table."""
+    """PCHIP interpolation of ``values`` over ``table_hz`` at ``at_hz``; exact at a one-point table."""
     at_hz = np.asarray(at_hz, dtype=float)
     if table_hz.size == 1:
         return np.broadcast_to(values[0], at_hz.shape).astype(values.dtype)
-    from scipy.interpolate import PchipInterpolator
-
-    clipped = np.clip(at_hz, table_hz[0], table_hz[-1])  # only rounding-level excursions reach here
-    return PchipInterpolator(table_hz, values)(clipped)
+    slopes = pchip_slopes(table_hz, values)
+    x = np.clip(at_hz, table_hz[0], table_hz[-1])  # only rounding-level excursions reach here
+    k = np.clip(np.searchsorted(table_hz, x, side="right") - 1, 0, table_hz.size - 2)
+    h = table_hz[k + 1] - table_hz[k]
+    t = (x - table_hz[k]) / h
+    # cubic Hermite basis on [0, 1]
+    h00, h10 = (1 + 2 * t) * (1 - t) ** 2, t * (1 - t) ** 2
+    h01, h11 = t * t * (3 - 2 * t), t * t * (t - 1)
+    return h00 * values[k] + h10 * h * slopes[k] + h01 * values[k + 1] + h11 * h * slopes[k + 1]
 
 
 def outside_table(table_hz, at_hz):

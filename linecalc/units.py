@@ -10,7 +10,21 @@ import re
 
 import pint
 
-ureg = pint.UnitRegistry()
+
+
+def _registry() -> pint.UnitRegistry:
+    """The registry, with pint's parsed-definitions cache when the user cache folder is writable.
+
+    The cache cuts the start-up of every command by about 0.1 s; without it pint parses its
+    definitions file afresh, with the same result.
+    """
+    try:
+        return pint.UnitRegistry(cache_folder=":auto:")
+    except OSError:
+        return pint.UnitRegistry()
+
+
+ureg = _registry()
 # Trade spellings that pint does not know by itself.
 ureg.define("ohms = ohm")
 ureg.define("Ohm = ohm")
