@@ -54,14 +54,15 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
     """
     rho_load = np.asarray(rho_load, dtype=complex)
-    state = np.stack([1 + rho_load, (1 - rho_load) / z_ref_load_ohm], -1)
-    states = [state]
+    voltages, currents = [1 + rho_load], [(1 - rho_load) / z_ref_load_ohm]
     for abcd in reversed(abcd_list):
-        state = (abcd @ state[..., None])[..., 0]
-        states.append(state)
-    shape = np.broadcast_shapes(*(s.shape for s in states))
-    nodes = np.stack([np.broadcast_to(s, shape) for s in reversed(states)], -3)  # (..., n+1, nf, 2)
-    voltage, current = nodes[..., 0], nodes[..., 1]
+        v, i = voltages[-1], currents[-1]
+        # the 2x2 product written out: numpy's matmul is slow on stacks of tiny matrices
+        voltages.append(abcd[..., 0, 0] * v + abcd[..., 0, 1] * i)
+        currents.append(abcd[..., 1, 0] * v + abcd[..., 1, 1] * i)
+    shape = np.broadcast_shapes(*(v.shape for v in voltages))
+    voltage = np.stack([np.broadcast_to(v, shape) for v in reversed(voltages)], -2)  # (..., n+1, nf)
+    current = np.stack([np.broadcast_to(i, shape) for i in reversed(currents)], -2)
     power_raw = (voltage * current.conj()).real
     scale = np.sqrt(radio_power_w / power_raw[..., :1, :])
     voltage, current = voltage * scale, current * scale
