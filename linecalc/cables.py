@@ -87,24 +87,40 @@ def coax_rlgc(frequency_hz, inner_diameter_m, dielectric_diameter_m, relative_pe
     Returns
     -------
     Rlgc
-        R' = Rs_i k_i/(pi d) + Rs_o k_o/(pi D); L' = mu0/(2 pi) ln(D/d) + R'/omega (the internal
-        inductance of a skin-effect conductor has a reactance equal to its resistance);
+        R' = R_s' + k_i/(sigma_i pi d^2) - k_o/(sigma_o pi D^2) with the skin term
+        R_s' = Rs_i k_i/(pi d) + Rs_o k_o/(pi D); L' = mu0/(2 pi) ln(D/d) + R_s'/omega (the
+        internal reactance of a skin-effect conductor equals its skin-term resistance);
         C' = 2 pi eps0 eps_r / ln(D/d); G' = omega C' tan(delta).
+
+    Notes
+    -----
+    The two curvature terms are the first-order corrections in skin depth over radius of the exact
+    (Bessel-function) internal impedance: I0(z)/I1(z) ~ 1 + 1/(2z) for the solid inner rod adds a
+    quarter of its dc resistance; K0(z)/K1(z) ~ 1 - 1/(2z) for the inside of a thick outer tube
+    subtracts the same form. Without them the loss of a 0.9 mm inner conductor reads 5 % low at
+    1 MHz. The remaining error is of second order, below 1 % once the inner radius exceeds about
+    four skin depths (0.5 mm in copper at 1 MHz).
 
     References
     ----------
     Pozar, Microwave Engineering, 4th ed., section 2.1, Table 2.1 (coaxial line parameters);
     Ramo, Whinnery and Van Duzer, Fields and Waves in Communication Electronics, 3rd ed.,
-    section 5.6 (internal impedance of a conductor in the skin-effect regime).
+    section 5.6 (internal impedance of a conductor in the skin-effect regime); Schelkunoff, "The
+    electromagnetic theory of coaxial transmission lines and cylindrical shields", Bell Syst. Tech.
+    J. 13 (1934) 532-579 (exact internal impedances); Abramowitz and Stegun, Handbook of
+    Mathematical Functions, 9.7.1 and 9.7.2 (large-argument expansions of I_n and K_n).
     """
     frequency_hz = np.asarray(frequency_hz, dtype=float)
     omega = 2 * np.pi * frequency_hz
     log_ratio = np.log(dielectric_diameter_m / inner_diameter_m)
-    r = (surface_resistance_ohm(frequency_hz, inner_conductivity_s_per_m) * inner_factor / (np.pi * inner_diameter_m)
-         + surface_resistance_ohm(frequency_hz, outer_conductivity_s_per_m) * outer_factor / (np.pi * dielectric_diameter_m))
+    r_skin = (surface_resistance_ohm(frequency_hz, inner_conductivity_s_per_m) * inner_factor / (np.pi * inner_diameter_m)
+              + surface_resistance_ohm(frequency_hz, outer_conductivity_s_per_m) * outer_factor / (np.pi * dielectric_diameter_m))
+    r_curvature = (inner_factor / (inner_conductivity_s_per_m * np.pi * inner_diameter_m ** 2)
+                   - outer_factor / (outer_conductivity_s_per_m * np.pi * dielectric_diameter_m ** 2))
     l_ext = MU_0 / (2 * np.pi) * log_ratio
     c = 2 * np.pi * EPSILON_0 * relative_permittivity / log_ratio
-    return Rlgc(r, l_ext + r / omega, omega * c * loss_tangent, np.broadcast_to(c, frequency_hz.shape))
+    return Rlgc(r_skin + r_curvature, l_ext + r_skin / omega, omega * c * loss_tangent,
+                np.broadcast_to(c, frequency_hz.shape))
 
 
 def two_wire_rlgc(frequency_hz, wire_diameter_m, spacing_m, relative_permittivity, loss_tangent,
@@ -131,9 +147,16 @@ def two_wire_rlgc(frequency_hz, wire_diameter_m, spacing_m, relative_permittivit
     Returns
     -------
     Rlgc
-        With x = D/d: L' = (mu0/pi) acosh(x) + R'/omega; C' = pi eps0 eps_r / acosh(x);
-        R' = 2 Rs k/(pi d) * x/sqrt(x^2 - 1) (both wires, with the proximity effect of the
-        exact two-cylinder current distribution); G' = omega C' tan(delta).
+        With x = D/d: R' = R_s' + 2 k/(sigma pi d^2) with the skin term
+        R_s' = 2 Rs k/(pi d) * x/sqrt(x^2 - 1) (both wires, with the proximity effect of the
+        exact two-cylinder current distribution); L' = (mu0/pi) acosh(x) + R_s'/omega;
+        C' = pi eps0 eps_r / acosh(x); G' = omega C' tan(delta).
+
+    Notes
+    -----
+    The term 2 k/(sigma pi d^2) is a quarter of the dc resistance of each wire: the first-order
+    correction in skin depth over radius of the exact internal impedance of a round wire,
+    I0(z)/I1(z) ~ 1 + 1/(2z) (see `coax_rlgc`). It matters at the low end of HF for thin wires.
 
     References
     ----------
@@ -146,10 +169,12 @@ def two_wire_rlgc(frequency_hz, wire_diameter_m, spacing_m, relative_permittivit
     x = spacing_m / wire_diameter_m
     arc = np.arccosh(x)
     proximity = x / np.sqrt(x * x - 1.0)
-    r = 2 * surface_resistance_ohm(frequency_hz, conductivity_s_per_m) * conductor_factor / (np.pi * wire_diameter_m) * proximity
+    r_skin = 2 * surface_resistance_ohm(frequency_hz, conductivity_s_per_m) * conductor_factor / (np.pi * wire_diameter_m) * proximity
+    r_curvature = 2 * conductor_factor / (conductivity_s_per_m * np.pi * wire_diameter_m ** 2)
     l_ext = MU_0 / np.pi * arc
     c = np.pi * EPSILON_0 * relative_permittivity / arc
-    return Rlgc(r, l_ext + r / omega, omega * c * loss_tangent, np.broadcast_to(c, frequency_hz.shape))
+    return Rlgc(r_skin + r_curvature, l_ext + r_skin / omega, omega * c * loss_tangent,
+                np.broadcast_to(c, frequency_hz.shape))
 
 
 def fitted_rlgc(frequency_hz, z0_nominal_ohm, velocity_factor, k_conductor, k_dielectric) -> Rlgc:
