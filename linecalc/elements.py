@@ -65,3 +65,265 @@ class Line:
         """Matched loss [dB]: 20 log10(e) alpha l."""
         _, gamma = self.cable.constants(frequency_hz)
         return DB_PER_NEPER * gamma.real * np.asarray(self.length_m, dtype=float)[..., None]
+
+
+
+def _stack_abcd(a, b, c, d):
+    """Assemble a chain matrix (..., nf, 2, 2) from its four broadcastable entries."""
+    a, b, c, d = np.broadcast_arrays(*(np.asarray(x, dtype=complex) for x in (a, b, c, d)))
+    return np.stack([np.stack([a, b], -1), np.stack([c, d], -1)], -2)
+
+
+def attenuator_abcd(loss_db, z0_ohm, frequency_hz):
+    """Chain matrix of a matched, phase-free attenuator in a real ``z0_ohm`` system.
+
+    Parameters
+    ----------
+    loss_db : float
+        Insertion loss when terminated in ``z0_ohm`` [dB].
+    z0_ohm : float
+        Reference impedance [ohm].
+    frequency_hz : ndarray, shape (nf,)
+        Frequency [Hz]; the loss is the same at every frequency.
+
+    Returns
+    -------
+    ndarray, shape (nf, 2, 2)
+        A line section with gamma*l = loss/8.686 Np and no phase: [[cosh, Z0 sinh], [sinh/Z0, cosh]].
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1 (line ABCD; a matched
+    attenuator is a line section with a real propagation term).
+    """
+    gl = np.full(np.shape(frequency_hz), loss_db / DB_PER_NEPER)
+    return _stack_abcd(np.cosh(gl), z0_ohm * np.sinh(gl), np.sinh(gl) / z0_ohm, np.cosh(gl))
+
+
+def transformer_abcd(impedance_ratio, frequency_hz):
+    """Chain matrix of an ideal transformer that raises impedance by ``impedance_ratio`` toward its output.
+
+    Parameters
+    ----------
+    impedance_ratio : float
+        Output impedance over input impedance, n for an n:1 balun (a 4:1 balun turns 50 ohm
+        into 200 ohm toward the antenna) [1].
+    frequency_hz : ndarray, shape (nf,)
+
+    Returns
+    -------
+    ndarray, shape (nf, 2, 2)
+        [[1/N, 0], [0, N]] with turns ratio N = sqrt(n).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1 (ideal transformer).
+    """
+    turns = np.sqrt(impedance_ratio)
+    zeros = np.zeros(np.shape(frequency_hz))
+    return _stack_abcd(zeros + 1 / turns, zeros, zeros, zeros + turns)
+
+
+def insertion_loss_db(abcd, z_ref_ohm):
+    """Insertion loss of a two-port between a source and a load of the real reference impedance.
+
+    Parameters
+    ----------
+    abcd : ndarray, shape (..., 2, 2)
+    z_ref_ohm : float
+
+    Returns
+    -------
+    ndarray
+        -20 log10 |S21| = 20 log10 |A + B/Z0 + C Z0 + D| / 2 [dB].
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.2 (S21 from ABCD parameters).
+    """
+    a, b, c, d = abcd[..., 0, 0], abcd[..., 0, 1], abcd[..., 1, 0], abcd[..., 1, 1]
+    return 20 * np.log10(np.abs(a + b / z_ref_ohm + c * z_ref_ohm + d) / 2)
+
+
+def series_abcd(impedance_ohm):
+    """[[1, Z], [0, 1]]: an impedance in series. Pozar, 4th ed., Table 4.1."""
+    z = np.asarray(impedance_ohm, dtype=complex)
+    return _stack_abcd(1.0, z, 0.0, 1.0)
+
+
+def shunt_abcd(admittance_s):
+    """[[1, 0], [Y, 1]]: an admittance in shunt. Pozar, 4th ed., Table 4.1."""
+    y = np.asarray(admittance_s, dtype=complex)
+    return _stack_abcd(1.0, 0.0, y, 1.0)
+
+
+def part_impedance_ohm(frequency_hz, resistance_ohm=0.0, inductance_h=0.0, capacitance_f=None,
+                       inductor_q=np.inf, capacitor_q=np.inf):
+    """Impedance of a resistor, inductor and capacitor in series, each lossy part by its Q.
+
+    Parameters
+    ----------
+    frequency_hz : ndarray
+    resistance_ohm : float
+    inductance_h : float
+    capacitance_f : float or None
+        None for no capacitor (a short in its place).
+    inductor_q, capacitor_q : float
+        Unloaded Q; the loss is a series resistance X/Q [1].
+
+    Returns
+    -------
+    ndarray of complex
+        R + X_L (1/Q_L + j) + |X_C| (1/Q_C - j) [ohm].
+
+    References
+    ----------
+    Terman, Radio Engineers' Handbook (1943), section 2 (Q of coils and capacitors, series
+    equivalent resistance X/Q), from memory; the definition Q = X/R is standard.
+    """
+    omega = 2 * np.pi * np.asarray(frequency_hz, dtype=float)
+    z = resistance_ohm + omega * inductance_h * (1 / inductor_q + 1j)
+    if capacitance_f is not None:
+        x_c = 1 / (omega * capacitance_f)
+        z = z + x_c * (1 / capacitor_q - 1j)
+    return z
+
+
+@dataclass(frozen=True)
+class Attenuating:
+    """A connector, a choke's differential path or any matched loss: ``loss_db`` each, ``count`` of them.
+
+    The loss is frequency independent and phase free, in the reference impedance.
+    """
+
+    kind: str
+    label: str
+    loss_db: float
+    z_ref_ohm: float
+    count: int = 1
+    common_mode_table: tuple = ()  # choke only: ((frequency_hz, impedance_ohm), ...)
+
+    def abcd(self, frequency_hz):
+        return attenuator_abcd(self.loss_db * self.count, self.z_ref_ohm, frequency_hz)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z
+
+    def matched_loss_db(self, frequency_hz):
+        return np.full(np.shape(frequency_hz), self.loss_db * self.count)
+
+
+@dataclass(frozen=True)
+class Transformer:
+    """A balun or transformer: impedance ratio n (output over input), insertion loss on its input side.
+
+    ``input_balanced`` and ``output_balanced`` say which sides are balanced (default: a balun,
+    unbalanced toward the radio, balanced toward the antenna).
+    """
+
+    label: str
+    impedance_ratio: float
+    loss_db: float
+    z_ref_ohm: float
+    input_balanced: bool = False
+    output_balanced: bool = True
+    kind: str = "balun"
+
+    def abcd(self, frequency_hz):
+        return attenuator_abcd(self.loss_db, self.z_ref_ohm, frequency_hz) @ transformer_abcd(self.impedance_ratio, frequency_hz)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z * self.impedance_ratio
+
+    def matched_loss_db(self, frequency_hz):
+        return np.full(np.shape(frequency_hz), self.loss_db)
+
+
+@dataclass(frozen=True)
+class Meter:
+    """An in-line SWR and power meter: no loss, it reads forward, reflected and net power and SWR
+    against its own impedance (default the reference impedance)."""
+
+    label: str
+    impedance_ohm: float
+    kind: str = "meter"
+
+    def abcd(self, frequency_hz):
+        return attenuator_abcd(0.0, self.impedance_ohm, frequency_hz)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.impedance_ohm))
+        return z, z
+
+    def matched_loss_db(self, frequency_hz):
+        return np.zeros(np.shape(frequency_hz))
+
+
+@dataclass(frozen=True)
+class LumpedPart:
+    """A resistor, inductor and capacitor in series, placed in series with the path or in shunt across it."""
+
+    label: str
+    placement: str  # "series" or "shunt"
+    z_ref_ohm: float
+    resistance_ohm: float = 0.0
+    inductance_h: float = 0.0
+    capacitance_f: float | None = None
+    inductor_q: float = np.inf
+    capacitor_q: float = np.inf
+
+    @property
+    def kind(self):
+        return self.placement
+
+    def impedance_ohm(self, frequency_hz):
+        return part_impedance_ohm(frequency_hz, self.resistance_ohm, self.inductance_h, self.capacitance_f,
+                                  self.inductor_q, self.capacitor_q)
+
+    def abcd(self, frequency_hz):
+        z = self.impedance_ohm(frequency_hz)
+        return series_abcd(z) if self.placement == "series" else shunt_abcd(1 / z)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z
+
+    def matched_loss_db(self, frequency_hz):
+        return insertion_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
+
+
+def stub_input_impedance_ohm(z0_ohm, gamma_per_m, length_m, shorted):
+    """Input impedance of a line section ended in a short (Z0 tanh(gl)) or left open (Z0 coth(gl)).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.3, equations (2.45) and (2.47), with gamma
+    in place of j beta for a lossy line.
+    """
+    t = np.tanh(np.asarray(length_m, dtype=float)[..., None] * gamma_per_m)
+    return z0_ohm * t if shorted else z0_ohm / t
+
+
+@dataclass(frozen=True)
+class Stub:
+    """A section of cable in shunt across the path, its far end open or shorted."""
+
+    label: str
+    cable: Cable
+    length_m: float
+    shorted: bool
+    z_ref_ohm: float
+    kind: str = "stub"
+
+    def abcd(self, frequency_hz):
+        z0, gamma = self.cable.constants(frequency_hz)
+        return shunt_abcd(1 / stub_input_impedance_ohm(z0, gamma, self.length_m, self.shorted))
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z
+
+    def matched_loss_db(self, frequency_hz):
+        return insertion_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
