@@ -1,0 +1,177 @@
+"""Reading YAML with line numbers and checking it against a schema, for station files.
+
+Every error is a `StationError` that names its file, line and key path.
+"""
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import yaml
+
+from .units import UnitError, parse_quantity
+
+class StationError(ValueError):
+    """Bad input, with where it is: rendered as ``FILE:LINE: what is wrong (at key.path)``."""
+
+    def __init__(self, file, line, message, path=""):
+        self.file, self.line, self.message, self.path = str(file), line, message, path
+        where = f" (at {path})" if path else ""
+        super().__init__(f"{self.file}:{line}: {message}{where}")
+
+
+class _Mapping(dict):
+    """A YAML mapping that remembers the line of each key and of itself."""
+
+    line = 0
+    key_lines: dict
+
+
+class _Sequence(list):
+    """A YAML sequence that remembers the line of each item and of itself."""
+
+    line = 0
+    item_lines: list
+
+
+class _LineLoader(yaml.SafeLoader):
+    """Safe YAML loader that records lines and refuses duplicate keys."""
+
+
+def _construct_mapping(loader, node):
+    loader.flatten_mapping(node)
+    result = _Mapping()
+    result.line, result.key_lines = node.start_mark.line + 1, {}
+    for key_node, value_node in node.value:
+        key = loader.construct_object(key_node, deep=True)
+        try:
+            hash(key)
+        except TypeError:
+            raise StationError(loader.name, key_node.start_mark.line + 1, "a mapping key must be a plain value") from None
+        if key in result:
+            raise StationError(loader.name, key_node.start_mark.line + 1, f"duplicate key {key!r}")
+        result[key] = loader.construct_object(value_node, deep=True)
+        result.key_lines[key] = key_node.start_mark.line + 1
+    return result
+
+
+def _construct_sequence(loader, node):
+    result = _Sequence(loader.construct_object(child, deep=True) for child in node.value)
+    result.line = node.start_mark.line + 1
+    result.item_lines = [child.start_mark.line + 1 for child in node.value]
+    return result
+
+
+_LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _construct_mapping)
+_LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_SEQUENCE_TAG, _construct_sequence)
+
+
+class Context:
+    """Where a value sits: the file, the key path and the line; raises `StationError`s there."""
+
+    def __init__(self, file, path="", line=1):
+        self.file, self.path, self.line = file, path, line
+
+    def child(self, parent, key):
+        if isinstance(parent, _Mapping):
+            line = parent.key_lines.get(key, parent.line)
+        elif isinstance(parent, _Sequence) and isinstance(key, int) and key < len(parent.item_lines):
+            line = parent.item_lines[key]
+        else:
+            line = self.line
+        path = f"{self.path}[{key}]" if isinstance(key, int) else (f"{self.path}.{key}" if self.path else str(key))
+        return Context(self.file, path, line)
+
+    def error(self, message):
+        return StationError(self.file, self.line, message, self.path)
+
+
+def mapping(value, ctx, required=(), optional=()):
+    """Check that ``value`` is a mapping with exactly the allowed keys."""
+    if not isinstance(value, dict):
+        raise ctx.error(f"expected a mapping with keys {', '.join(required + optional)}")
+    for key in value:
+        if key not in required and key not in optional:
+            allowed = ", ".join(required + optional)
+            raise ctx.child(value, key).error(f"unknown key {key!r}; allowed here: {allowed}")
+    for key in required:
+        if key not in value:
+            raise ctx.error(f"missing key {key!r}")
+    return value
+
+
+def quantity(parent, key, ctx, unit, *, positive=True, bare_unit=None):
+    """Read ``parent[key]`` as a quantity in ``unit``."""
+    where = ctx.child(parent, key)
+    try:
+        result = parse_quantity(parent[key], unit, bare_unit=bare_unit)
+    except UnitError as exc:
+        raise where.error(str(exc)) from None
+    if positive and not result > 0:
+        raise where.error(f"must be greater than zero, got {parent[key]!r}")
+    return result
+
+
+def number(parent, key, ctx, *, low=None, high=None, low_open=True):
+    """Read ``parent[key]`` as a plain finite number inside (low, high]."""
+    value = parent[key]
+    where = ctx.child(parent, key)
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        raise where.error(f"expected a number, got {value!r}")
+    if low is not None and (value <= low if low_open else value < low):
+        raise where.error(f"must be {'above' if low_open else 'at least'} {low:g}, got {value!r}")
+    if high is not None and value > high:
+        raise where.error(f"must be at most {high:g}, got {value!r}")
+    return float(value)
+
+
+def string(parent, key, ctx):
+    value = parent[key]
+    if not isinstance(value, str) or not value.strip():
+        raise ctx.child(parent, key).error(f"expected text, got {value!r}")
+    return value.strip()
+
+
+def frequency_table(table, ctx, read_value):
+    """Read ``{frequency: value}`` into increasing frequencies [Hz] and values."""
+    if not isinstance(table, dict) or not table:
+        raise ctx.error("expected a table of frequency: value, for example {7.15 MHz: 58+j12}")
+    rows = []
+    for key, value in table.items():
+        where = ctx.child(table, key)
+        try:
+            frequency = parse_quantity(key, "Hz")
+        except UnitError as exc:
+            raise where.error(str(exc)) from None
+        if not frequency > 0:
+            raise where.error(f"frequency must be greater than zero, got {key!r}")
+        rows.append((frequency, read_value(value, where), where))
+    rows.sort(key=lambda row: row[0])
+    for (f1, _, _), (f2, _, where) in zip(rows, rows[1:]):
+        if f2 == f1:
+            raise where.error(f"frequency {f2 / 1e6:g} MHz appears twice")
+    return np.array([r[0] for r in rows]), [r[1] for r in rows]
+
+
+
+
+def load_yaml_text(text, file):
+    """Parse YAML text into mappings and sequences that remember their lines.
+
+    An empty document, a syntax error or a duplicate key is a `StationError` naming ``file``.
+    """
+    loader = _LineLoader(text)
+    loader.name = str(file)
+    try:
+        doc = loader.get_single_data()
+    except yaml.MarkedYAMLError as exc:
+        mark = exc.problem_mark or exc.context_mark
+        line = mark.line + 1 if mark else 1
+        raise StationError(file, line, f"YAML syntax error: {exc.problem or exc}") from None
+    except yaml.YAMLError as exc:
+        raise StationError(file, 1, f"YAML error: {exc}") from None
+    finally:
+        loader.dispose()
+    if doc is None:
+        raise StationError(file, 1, "the file is empty")
+    return doc
