@@ -47,6 +47,7 @@ class ElementBudget:
     dissipated_w: np.ndarray
     swr_in: np.ndarray
     swr_out: np.ndarray
+    readings: dict = field(default_factory=dict)  # element-specific arrays: a meter's SWR and powers
 
 
 @dataclass(frozen=True)
@@ -114,6 +115,15 @@ def _range_warnings(feed, frequency_hz, labels):
     return warnings
 
 
+def _element_notices(feed, frequency_hz, labels):
+    """Warnings that elements raise about themselves (a weak choke, say)."""
+    notices = []
+    for element in feed:
+        if hasattr(element, "notices"):
+            notices += element.notices(frequency_hz, labels)
+    return notices
+
+
 def _phase_mean(values, swr_only):
     """Average over the unknown-phase axis of an SWR-only antenna (a no-op otherwise)."""
     return values.mean(axis=0) if swr_only else values
@@ -147,14 +157,20 @@ def solve_budget(station: Station) -> BudgetResult:
     power_w = _phase_mean(solution.power_w, swr_only)
     dissipated_w = _phase_mean(solution.dissipated_w, swr_only)
 
+    def phase_mean(values):
+        return _phase_mean(values, swr_only)
+
     elements = []
     for k, element in enumerate(station.feed):
+        readings = {}
+        if hasattr(element, "readings"):
+            readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean)
         elements.append(ElementBudget(
             kind=element.kind, label=element.label,
             loss_db=10 * np.log10(power_w[k] / power_w[k + 1]),
             matched_loss_db=np.broadcast_to(element.matched_loss_db(f), f.shape),
             dissipated_w=dissipated_w[k],
-            swr_in=swr_in[k], swr_out=swr_out[k],
+            swr_in=swr_in[k], swr_out=swr_out[k], readings=readings,
         ))
 
     if station.feed:
@@ -179,7 +195,8 @@ def solve_budget(station: Station) -> BudgetResult:
         matched_loss_db=matched_loss_db, mismatch_loss_db=total_loss_db - matched_loss_db,
         total_loss_db=total_loss_db, power_radio_w=power_radio, power_antenna_w=power_antenna,
         elements=tuple(elements), total_loss_db_range=loss_range,
-        warnings=tuple(_range_warnings(station.feed, f, station.labels)), solution=solution,
+        warnings=tuple(_range_warnings(station.feed, f, station.labels) + _element_notices(station.feed, f, station.labels)),
+        solution=solution,
     )
 
 

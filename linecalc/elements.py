@@ -12,6 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .cables import Cable
+from .solver import swr_from_rho, wave_powers
 
 DB_PER_NEPER = 20 * np.log10(np.e)
 
@@ -124,25 +125,31 @@ def transformer_abcd(impedance_ratio, frequency_hz):
     return _stack_abcd(zeros + 1 / turns, zeros, zeros, zeros + turns)
 
 
-def insertion_loss_db(abcd, z_ref_ohm):
-    """Insertion loss of a two-port between a source and a load of the real reference impedance.
+def terminated_loss_db(abcd, z_load_ohm):
+    """Dissipative loss of a two-port terminated in ``z_load_ohm``: 10 log10(P_in / P_out).
 
     Parameters
     ----------
     abcd : ndarray, shape (..., 2, 2)
-    z_ref_ohm : float
+    z_load_ohm : complex or ndarray
+        Termination at the output [ohm].
 
     Returns
     -------
     ndarray
-        -20 log10 |S21| = 20 log10 |A + B/Z0 + C Z0 + D| / 2 [dB].
+        With I_out = 1 and V_out = Z_load: V_in = A Z_load + B, I_in = C Z_load + D, and
+        10 log10(Re(V_in I_in*) / Re(Z_load)) [dB]. Unlike insertion loss, this counts only the
+        heat, not the power a reactive part turns back; for a line terminated in its own Z0 it is
+        20 log10(e) alpha l.
 
     References
     ----------
-    Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.2 (S21 from ABCD parameters).
+    Pozar, Microwave Engineering, 4th ed., section 4.4 (ABCD parameters; power Re(V I*) at a port).
     """
-    a, b, c, d = abcd[..., 0, 0], abcd[..., 0, 1], abcd[..., 1, 0], abcd[..., 1, 1]
-    return 20 * np.log10(np.abs(a + b / z_ref_ohm + c * z_ref_ohm + d) / 2)
+    z = np.asarray(z_load_ohm, dtype=complex)
+    v_in = abcd[..., 0, 0] * z + abcd[..., 0, 1]
+    i_in = abcd[..., 1, 0] * z + abcd[..., 1, 1]
+    return 10 * np.log10((v_in * i_in.conj()).real / z.real)
 
 
 def series_abcd(impedance_ohm):
@@ -201,7 +208,25 @@ class Attenuating:
     loss_db: float
     z_ref_ohm: float
     count: int = 1
-    common_mode_table: tuple = ()  # choke only: ((frequency_hz, impedance_ohm), ...)
+    common_mode_table: tuple = ()  # choke only: ((frequency_hz, |Z| ohm), ...) in increasing frequency
+    common_mode_threshold_ohm: float = 0.0
+
+    def common_mode_ohm(self, frequency_hz):
+        """Common-mode impedance magnitude [ohm] from the table, linear between its points; NaN outside it."""
+        if not self.common_mode_table:
+            return np.full(np.shape(frequency_hz), np.nan)
+        table_hz, table_ohm = (np.array(column) for column in zip(*self.common_mode_table))
+        inside = (frequency_hz >= table_hz[0]) & (frequency_hz <= table_hz[-1])
+        return np.where(inside, np.interp(frequency_hz, table_hz, table_ohm), np.nan)
+
+    def notices(self, frequency_hz, labels):
+        """Warnings for the rows where a choke's common-mode impedance is below its threshold."""
+        z_cm = self.common_mode_ohm(frequency_hz)
+        weak = [f"{label} ({z:.0f} ohm)" for label, z in zip(labels, z_cm) if z < self.common_mode_threshold_ohm]
+        if not weak:
+            return []
+        return [f"choke {self.label}: common-mode impedance below {self.common_mode_threshold_ohm:g} ohm on "
+                f"{', '.join(weak)}; it may not stop current on the outside of the coax there"]
 
     def abcd(self, frequency_hz):
         return attenuator_abcd(self.loss_db * self.count, self.z_ref_ohm, frequency_hz)
@@ -260,6 +285,14 @@ class Meter:
     def matched_loss_db(self, frequency_hz):
         return np.zeros(np.shape(frequency_hz))
 
+    def readings(self, voltage_v, current_a, phase_mean):
+        """What the meter shows, from the RMS phasors at its port: SWR against its impedance,
+        forward, reflected and net power. ``phase_mean`` averages over an unknown load phase."""
+        forward, reflected = wave_powers(voltage_v, current_a, self.impedance_ohm)
+        rho_magnitude = np.sqrt(reflected / forward)
+        return {"swr": swr_from_rho(phase_mean(rho_magnitude)), "forward_w": phase_mean(forward),
+                "reflected_w": phase_mean(reflected), "net_w": phase_mean(forward - reflected)}
+
 
 @dataclass(frozen=True)
 class LumpedPart:
@@ -291,7 +324,7 @@ class LumpedPart:
         return z, z
 
     def matched_loss_db(self, frequency_hz):
-        return insertion_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
+        return terminated_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
 
 
 def stub_input_impedance_ohm(z0_ohm, gamma_per_m, length_m, shorted):
@@ -326,4 +359,4 @@ class Stub:
         return z, z
 
     def matched_loss_db(self, frequency_hz):
-        return insertion_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
+        return terminated_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)

@@ -46,7 +46,8 @@ def budget_document(result: BudgetResult) -> dict:
             "elements": [
                 {"kind": e.kind, "label": e.label, "loss_db": float(e.loss_db[i]),
                  "matched_loss_db": float(e.matched_loss_db[i]), "dissipated_w": float(e.dissipated_w[i]),
-                 "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i])}
+                 "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i]),
+                 **{key: _finite_or_none(values[i]) for key, values in e.readings.items()}}
                 for e in result.elements
             ],
         }
@@ -94,6 +95,13 @@ def budget_table(result: BudgetResult) -> str:
     if element_rows:
         lines += ["", "Loss and heat in each element:",
                   tabulate(element_rows, headers=["element", "label", *result.labels], disable_numparse=True)]
+    meters = [e for e in result.elements if e.kind == "meter"]
+    if meters:
+        meter_rows = [[e.label] + [f"SWR {_swr_text(e.readings['swr'][i])}, forward {e.readings['forward_w'][i]:.1f} W, "
+                                   f"reflected {e.readings['reflected_w'][i]:.1f} W" for i in range(len(result.labels))]
+                      for e in meters]
+        lines += ["", "What each in-line meter reads:",
+                  tabulate(meter_rows, headers=["meter", *result.labels], disable_numparse=True)]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE]
     return "\n".join(lines) + "\n"

@@ -12,12 +12,10 @@ import numpy as np
 
 from . import bands as band_table
 from .budget import Station
-from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
-from .elements import Line
+from .feed import build_feed
 from .loads import ImpedanceTable, SwrTable, outside_table
-from .schema import (Context, StationError, frequency_table, load_yaml_text, mapping, number,
-                     quantity, string)
-from .units import UnitError, parse_impedance, parse_loss_db_per_m
+from .schema import (Context, StationError, frequency_table, load_yaml_text, mapping, quantity, string)
+from .units import UnitError, parse_impedance
 
 
 def _read_impedance(value, ctx):
@@ -47,126 +45,6 @@ def _antenna(doc, ctx):
         return ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance")
     f, swr = frequency_table(doc["swr"], ctx.child(doc, "swr"), _read_swr)
     return SwrTable(f, np.array(swr)), ctx.child(doc, "swr")
-
-
-_POINTS_KEYS = ("impedance", "velocity_factor", "loss")
-_COAX_KEYS = ("inner_diameter", "dielectric_diameter", "permittivity", "loss_tangent")
-_TWO_WIRE_KEYS = ("wire_diameter", "spacing")
-
-
-def _inline_cable(doc, ctx, label):
-    """A cable given in the station file: loss points, or coax or two-wire geometry."""
-    if not isinstance(doc, dict):
-        raise ctx.error("a cable is a library id or a mapping")
-    geometry = doc.get("geometry")
-    common = ("description", "max_voltage")
-    if geometry is None:
-        mapping(doc, ctx, required=_POINTS_KEYS, optional=("kind", "geometry") + common)
-    elif geometry == "coax":
-        mapping(doc, ctx, required=("geometry",) + _COAX_KEYS,
-                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor") + common)
-    elif geometry == "two-wire":
-        mapping(doc, ctx, required=("geometry",) + _TWO_WIRE_KEYS,
-                 optional=("permittivity", "velocity_factor", "loss_tangent", "material", "conductor_factor") + common)
-    else:
-        raise ctx.child(doc, "geometry").error(f"geometry is coax or two-wire, got {geometry!r}")
-    description = string(doc, "description", ctx) if "description" in doc else f"inline cable of {label}"
-    max_voltage = quantity(doc, "max_voltage", ctx, "V") if "max_voltage" in doc else None
-    cable_id = f"inline:{ctx.path}"
-
-    if geometry is None:
-        kind = doc.get("kind", "coax")
-        if kind not in ("coax", "balanced"):
-            raise ctx.child(doc, "kind").error(f"kind is coax or balanced, got {kind!r}")
-        z0 = quantity(doc, "impedance", ctx, "ohm", bare_unit="ohm")
-        vf = number(doc, "velocity_factor", ctx, low=0, high=1)
-
-        def read_loss(value, where):
-            try:
-                loss = parse_loss_db_per_m(value)
-            except UnitError as exc:
-                raise where.error(str(exc)) from None
-            if not loss > 0:
-                raise where.error(f"a cable loss is greater than zero, got {value!r}")
-            return loss
-
-        f, loss = frequency_table(doc["loss"], ctx.child(doc, "loss"), read_loss)
-        return cable_from_points(cable_id, description, kind, z0, vf, f, loss, max_voltage)
-
-    def material(key):
-        name = doc.get(key, "copper")
-        if name not in CONDUCTIVITY_S_PER_M:
-            raise ctx.child(doc, key).error(f"unknown material {name!r}; known: {', '.join(CONDUCTIVITY_S_PER_M)}")
-        return name
-
-    def factor(key):
-        return number(doc, key, ctx, low=1, low_open=False) if key in doc else 1.0
-
-    def tangent():
-        return number(doc, "loss_tangent", ctx, low=0, high=1, low_open=False) if "loss_tangent" in doc else 0.0
-
-    if geometry == "coax":
-        d = quantity(doc, "inner_diameter", ctx, "m")
-        big_d = quantity(doc, "dielectric_diameter", ctx, "m")
-        if not big_d > d:
-            raise ctx.child(doc, "dielectric_diameter").error("must be larger than the inner diameter")
-        return coax_from_geometry(cable_id, description, d, big_d, number(doc, "permittivity", ctx, low=1, low_open=False),
-                                  tangent(), material("inner_material"), material("outer_material"),
-                                  factor("inner_factor"), factor("outer_factor"), max_voltage)
-    d = quantity(doc, "wire_diameter", ctx, "m")
-    spacing = quantity(doc, "spacing", ctx, "m")
-    if not spacing > d:
-        raise ctx.child(doc, "spacing").error("the centre spacing must be larger than the wire diameter")
-    if "permittivity" in doc and "velocity_factor" in doc:
-        raise ctx.error("give permittivity or velocity_factor, not both")
-    if "velocity_factor" in doc:
-        permittivity = number(doc, "velocity_factor", ctx, low=0, high=1) ** -2
-    elif "permittivity" in doc:
-        permittivity = number(doc, "permittivity", ctx, low=1, low_open=False)
-    else:
-        permittivity = 1.0
-    return two_wire_from_geometry(cable_id, description, d, spacing, permittivity, tangent(),
-                                  material("material"), factor("conductor_factor"), max_voltage)
-
-
-def _cable(value, ctx, label):
-    if isinstance(value, str):
-        from . import library  # the library is read only when a station names one of its cables
-
-        cables = library.load_library()
-        if value not in cables:
-            near = library.nearest_ids(value)
-            hint = f"; did you mean {', '.join(near)}?" if near else "; `linecalc cables` lists the library"
-            raise ctx.error(f"unknown cable id {value!r}{hint}")
-        return cables[value]
-    return _inline_cable(value, ctx, label)
-
-
-def _line(doc, ctx, index):
-    mapping(doc, ctx, required=("cable", "length"), optional=("label",))
-    label = string(doc, "label", ctx) if "label" in doc else f"line {index + 1}"
-    cable = _cable(doc["cable"], ctx.child(doc, "cable"), label)
-    length = quantity(doc, "length", ctx, "m")
-    return Line(cable=cable, length_m=length, label=label)
-
-
-# Element builders by key in the feed list; each takes (mapping, context, index).
-ELEMENT_BUILDERS = {"line": _line}
-
-
-def _feed(doc, ctx):
-    if not isinstance(doc, list):
-        raise ctx.error("feed is a list of elements from the radio to the antenna, for example - line: {...}")
-    feed = []
-    for index, item in enumerate(doc):
-        where = ctx.child(doc, index)
-        if not isinstance(item, dict) or len(item) != 1:
-            raise where.error(f"each feed element is one key ({', '.join(ELEMENT_BUILDERS)}) with its settings")
-        (kind, settings), = item.items()
-        if kind not in ELEMENT_BUILDERS:
-            raise where.error(f"unknown element {kind!r}; known: {', '.join(ELEMENT_BUILDERS)}")
-        feed.append(ELEMENT_BUILDERS[kind](settings, where.child(item, kind), index))
-    return tuple(feed)
 
 
 def _rows(doc, ctx):
@@ -220,7 +98,7 @@ def station_from_document(doc, file="<station>") -> Station:
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
         asked = ", ".join(f"{label} ({f / 1e6:g} MHz)" for label, f, out in zip(labels, frequency_hz, outside) if out)
         raise table_ctx.error(f"{asked} outside the antenna table, which spans {span}; it is never extrapolated")
-    feed = _feed(doc["feed"], ctx.child(doc, "feed"))
+    feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
     region = doc.get("region", 2)
     return Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
                    frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region)

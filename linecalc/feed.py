@@ -1,0 +1,270 @@
+"""The feed list of a station file: each element's keys, units and defaults, built into two-ports.
+
+Defaults, all documented in the README where the key is:
+- connector: ``loss`` 0.05 dB each, ``count`` 1 (common practice: a good coax connector at HF
+  and VHF loses a few hundredths of a dB).
+- choke: ``loss`` 0.05 dB differential-mode insertion loss (common practice for a ferrite or
+  coiled-coax current choke at HF); ``min_common_mode`` 500 ohm, the common-mode impedance
+  below which a band is flagged (common practice).
+- balun: ``loss`` 0.2 dB (common practice for a ferrite-core transformer balun at HF);
+  ``input: unbalanced``, ``output: balanced``.
+- meter: ``impedance`` the radio's reference impedance.
+- series / shunt parts: ``inductor_q`` 100, ``capacitor_q`` 1000 (common practice), the
+  resistor ideal.
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
+from .elements import Attenuating, LumpedPart, Line, Meter, Stub, Transformer
+from .schema import frequency_table, mapping, number, quantity, string
+from .units import UnitError, parse_impedance, parse_loss_db_per_m
+
+CONNECTOR_LOSS_DB = 0.05
+CHOKE_LOSS_DB = 0.05
+CHOKE_MIN_COMMON_MODE_OHM = 500.0
+BALUN_LOSS_DB = 0.2
+INDUCTOR_Q = 100.0
+CAPACITOR_Q = 1000.0
+
+
+_POINTS_KEYS = ("impedance", "velocity_factor", "loss")
+_COAX_KEYS = ("inner_diameter", "dielectric_diameter", "permittivity", "loss_tangent")
+_TWO_WIRE_KEYS = ("wire_diameter", "spacing")
+
+
+def _inline_cable(doc, ctx, label):
+    """A cable given in the station file: loss points, or coax or two-wire geometry."""
+    if not isinstance(doc, dict):
+        raise ctx.error("a cable is a library id or a mapping")
+    geometry = doc.get("geometry")
+    common = ("description", "max_voltage")
+    if geometry is None:
+        mapping(doc, ctx, required=_POINTS_KEYS, optional=("kind", "geometry") + common)
+    elif geometry == "coax":
+        mapping(doc, ctx, required=("geometry",) + _COAX_KEYS,
+                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor") + common)
+    elif geometry == "two-wire":
+        mapping(doc, ctx, required=("geometry",) + _TWO_WIRE_KEYS,
+                 optional=("permittivity", "velocity_factor", "loss_tangent", "material", "conductor_factor") + common)
+    else:
+        raise ctx.child(doc, "geometry").error(f"geometry is coax or two-wire, got {geometry!r}")
+    description = string(doc, "description", ctx) if "description" in doc else f"inline cable of {label}"
+    max_voltage = quantity(doc, "max_voltage", ctx, "V") if "max_voltage" in doc else None
+    cable_id = f"inline:{ctx.path}"
+
+    if geometry is None:
+        kind = doc.get("kind", "coax")
+        if kind not in ("coax", "balanced"):
+            raise ctx.child(doc, "kind").error(f"kind is coax or balanced, got {kind!r}")
+        z0 = quantity(doc, "impedance", ctx, "ohm", bare_unit="ohm")
+        vf = number(doc, "velocity_factor", ctx, low=0, high=1)
+
+        def read_loss(value, where):
+            try:
+                loss = parse_loss_db_per_m(value)
+            except UnitError as exc:
+                raise where.error(str(exc)) from None
+            if not loss > 0:
+                raise where.error(f"a cable loss is greater than zero, got {value!r}")
+            return loss
+
+        f, loss = frequency_table(doc["loss"], ctx.child(doc, "loss"), read_loss)
+        return cable_from_points(cable_id, description, kind, z0, vf, f, loss, max_voltage)
+
+    def material(key):
+        name = doc.get(key, "copper")
+        if name not in CONDUCTIVITY_S_PER_M:
+            raise ctx.child(doc, key).error(f"unknown material {name!r}; known: {', '.join(CONDUCTIVITY_S_PER_M)}")
+        return name
+
+    def factor(key):
+        return number(doc, key, ctx, low=1, low_open=False) if key in doc else 1.0
+
+    def tangent():
+        return number(doc, "loss_tangent", ctx, low=0, high=1, low_open=False) if "loss_tangent" in doc else 0.0
+
+    if geometry == "coax":
+        d = quantity(doc, "inner_diameter", ctx, "m")
+        big_d = quantity(doc, "dielectric_diameter", ctx, "m")
+        if not big_d > d:
+            raise ctx.child(doc, "dielectric_diameter").error("must be larger than the inner diameter")
+        return coax_from_geometry(cable_id, description, d, big_d, number(doc, "permittivity", ctx, low=1, low_open=False),
+                                  tangent(), material("inner_material"), material("outer_material"),
+                                  factor("inner_factor"), factor("outer_factor"), max_voltage)
+    d = quantity(doc, "wire_diameter", ctx, "m")
+    spacing = quantity(doc, "spacing", ctx, "m")
+    if not spacing > d:
+        raise ctx.child(doc, "spacing").error("the centre spacing must be larger than the wire diameter")
+    if "permittivity" in doc and "velocity_factor" in doc:
+        raise ctx.error("give permittivity or velocity_factor, not both")
+    if "velocity_factor" in doc:
+        permittivity = number(doc, "velocity_factor", ctx, low=0, high=1) ** -2
+    elif "permittivity" in doc:
+        permittivity = number(doc, "permittivity", ctx, low=1, low_open=False)
+    else:
+        permittivity = 1.0
+    return two_wire_from_geometry(cable_id, description, d, spacing, permittivity, tangent(),
+                                  material("material"), factor("conductor_factor"), max_voltage)
+
+
+def _cable(value, ctx, label):
+    if isinstance(value, str):
+        from . import library  # the library is read only when a station names one of its cables
+
+        cables = library.load_library()
+        if value not in cables:
+            near = library.nearest_ids(value)
+            hint = f"; did you mean {', '.join(near)}?" if near else "; `linecalc cables` lists the library"
+            raise ctx.error(f"unknown cable id {value!r}{hint}")
+        return cables[value]
+    return _inline_cable(value, ctx, label)
+
+
+def _label(doc, ctx, kind, index):
+    return string(doc, "label", ctx) if "label" in doc else f"{kind} {index + 1}"
+
+
+def _line(doc, ctx, index, z_ref_ohm):
+    mapping(doc, ctx, required=("cable", "length"), optional=("label",))
+    label = _label(doc, ctx, "line", index)
+    cable = _cable(doc["cable"], ctx.child(doc, "cable"), label)
+    length = quantity(doc, "length", ctx, "m")
+    return Line(cable=cable, length_m=length, label=label)
+
+
+def _loss(doc, ctx, default_db):
+    """A non-negative loss in dB (``0.1 dB`` or a bare number in dB)."""
+    if "loss" not in doc:
+        return default_db
+    value = doc["loss"]
+    where = ctx.child(doc, "loss")
+    text = value.strip() if isinstance(value, str) else value
+    if isinstance(text, str) and text.lower().endswith("db"):
+        text = text[:-2].strip()
+    try:
+        loss = float(text)
+    except (TypeError, ValueError):
+        raise where.error(f"a loss is a number of dB such as 0.1 dB, got {value!r}") from None
+    if isinstance(value, bool) or not np.isfinite(loss) or loss < 0:
+        raise where.error(f"a loss is zero or more dB, got {value!r}")
+    return loss
+
+
+def _connector(doc, ctx, index, z_ref_ohm):
+    mapping(doc or {}, ctx, optional=("count", "loss", "label"))
+    doc = doc or {}
+    count = doc.get("count", 1)
+    if isinstance(count, bool) or not isinstance(count, int) or count < 1:
+        raise ctx.child(doc, "count").error(f"count is a whole number of at least 1, got {count!r}")
+    return Attenuating("connector", _label(doc, ctx, "connector", index), _loss(doc, ctx, CONNECTOR_LOSS_DB),
+                       z_ref_ohm, count)
+
+
+def _choke(doc, ctx, index, z_ref_ohm):
+    doc = doc or {}
+    mapping(doc, ctx, optional=("loss", "common_mode", "min_common_mode", "label"))
+    table = ()
+    if "common_mode" in doc:
+        def read(value, where):
+            try:
+                return abs(parse_impedance(value))
+            except UnitError as exc:
+                raise where.error(str(exc)) from None
+
+        f, z = frequency_table(doc["common_mode"], ctx.child(doc, "common_mode"), read)
+        table = tuple(zip(f.tolist(), z))
+    threshold = (quantity(doc, "min_common_mode", ctx, "ohm", bare_unit="ohm") if "min_common_mode" in doc
+                 else CHOKE_MIN_COMMON_MODE_OHM)
+    return Attenuating("choke", _label(doc, ctx, "choke", index), _loss(doc, ctx, CHOKE_LOSS_DB), z_ref_ohm,
+                       common_mode_table=table, common_mode_threshold_ohm=threshold)
+
+
+def _ratio(doc, ctx):
+    value = doc["ratio"]
+    where = ctx.child(doc, "ratio")
+    try:
+        if isinstance(value, str) and ":" in value:
+            high, low = (float(part) for part in value.split(":"))
+            ratio = high / low
+        elif isinstance(value, (int, float)) and not isinstance(value, bool):
+            ratio = float(value)
+        else:
+            raise ValueError
+    except (ValueError, ZeroDivisionError):
+        raise where.error(f"a ratio is written 4:1 or 4, got {value!r}") from None
+    if not (np.isfinite(ratio) and ratio > 0):
+        raise where.error(f"an impedance ratio is greater than zero, got {value!r}")
+    return ratio
+
+
+def _side(doc, ctx, key, default):
+    value = doc.get(key, default)
+    if value not in ("balanced", "unbalanced"):
+        raise ctx.child(doc, key).error(f"{key} is balanced or unbalanced, got {value!r}")
+    return value == "balanced"
+
+
+def _balun(doc, ctx, index, z_ref_ohm):
+    mapping(doc, ctx, required=("ratio",), optional=("loss", "input", "output", "label"))
+    return Transformer(_label(doc, ctx, "balun", index), _ratio(doc, ctx), _loss(doc, ctx, BALUN_LOSS_DB), z_ref_ohm,
+                       _side(doc, ctx, "input", "unbalanced"), _side(doc, ctx, "output", "balanced"))
+
+
+def _meter(doc, ctx, index, z_ref_ohm):
+    doc = doc or {}
+    mapping(doc, ctx, optional=("impedance", "label"))
+    impedance = quantity(doc, "impedance", ctx, "ohm", bare_unit="ohm") if "impedance" in doc else z_ref_ohm
+    return Meter(_label(doc, ctx, "meter", index), impedance)
+
+
+def _q(doc, ctx, key, default):
+    return number(doc, key, ctx, low=0) if key in doc else default
+
+
+def _part(placement):
+    def build(doc, ctx, index, z_ref_ohm):
+        mapping(doc, ctx, optional=("r", "l", "c", "inductor_q", "capacitor_q", "label"))
+        if not any(key in doc for key in ("r", "l", "c")):
+            raise ctx.error("give at least one of r, l, c (in series with each other)")
+        return LumpedPart(
+            _label(doc, ctx, placement, index), placement, z_ref_ohm,
+            resistance_ohm=quantity(doc, "r", ctx, "ohm", positive=False, bare_unit="ohm") if "r" in doc else 0.0,
+            inductance_h=quantity(doc, "l", ctx, "H") if "l" in doc else 0.0,
+            capacitance_f=quantity(doc, "c", ctx, "F") if "c" in doc else None,
+            inductor_q=_q(doc, ctx, "inductor_q", INDUCTOR_Q), capacitor_q=_q(doc, ctx, "capacitor_q", CAPACITOR_Q))
+    return build
+
+
+def _stub(doc, ctx, index, z_ref_ohm):
+    mapping(doc, ctx, required=("cable", "length", "end"), optional=("label",))
+    label = _label(doc, ctx, "stub", index)
+    end = doc["end"]
+    if end not in ("open", "short"):
+        raise ctx.child(doc, "end").error(f"end is open or short, got {end!r}")
+    return Stub(label, _cable(doc["cable"], ctx.child(doc, "cable"), label), quantity(doc, "length", ctx, "m"),
+                end == "short", z_ref_ohm)
+
+
+# Element builders by key in the feed list; each takes (settings, context, index, z_ref_ohm).
+ELEMENT_BUILDERS = {"line": _line, "connector": _connector, "choke": _choke, "balun": _balun, "meter": _meter,
+                    "series": _part("series"), "shunt": _part("shunt"), "stub": _stub}
+
+
+def build_feed(doc, ctx, z_ref_ohm):
+    """Build the feed list (radio to antenna) into a tuple of elements."""
+    if not isinstance(doc, list):
+        raise ctx.error("feed is a list of elements from the radio to the antenna, for example - line: {...}")
+    feed = []
+    for index, item in enumerate(doc):
+        where = ctx.child(doc, index)
+        if not isinstance(item, dict) or len(item) != 1:
+            raise where.error(f"each feed element is one key ({', '.join(ELEMENT_BUILDERS)}) with its settings")
+        (kind, settings), = item.items()
+        if kind not in ELEMENT_BUILDERS:
+            raise where.error(f"unknown element {kind!r}; known: {', '.join(ELEMENT_BUILDERS)}")
+        feed.append(ELEMENT_BUILDERS[kind](settings, where.child(item, kind), index, z_ref_ohm))
+    return tuple(feed)
+
+
