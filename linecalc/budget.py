@@ -115,6 +115,25 @@ def _range_warnings(feed, frequency_hz, labels):
     return warnings
 
 
+def _balance_warnings(feed):
+    """A warning where a balanced line is fed from an unbalanced port with no balun, choke or
+    balanced tuner between them (the radio's port is unbalanced)."""
+    warnings, balanced, source = [], False, "the radio"
+    for element in feed:
+        cable = getattr(element, "cable", None)
+        if element.kind == "line" and cable is not None:
+            if cable.kind == "balanced" and not balanced:
+                warnings.append(f"balanced line {element.label} is fed from the unbalanced port of {source} with no "
+                                "balun, choke or balanced tuner between them: expect current on the outside of "
+                                "the coax and a shack that is part of the antenna")
+            balanced, source = cable.kind == "balanced", element.label
+        elif element.kind in ("balun", "tuner"):
+            balanced, source = bool(getattr(element, "output_balanced", False)), element.label
+        elif element.kind == "choke":  # a common-mode choke is a 1:1 current balun
+            balanced, source = True, element.label
+    return warnings
+
+
 def _element_notices(feed, frequency_hz, labels):
     """Warnings that elements raise about themselves (a weak choke, say)."""
     notices = []
@@ -195,7 +214,8 @@ def solve_budget(station: Station) -> BudgetResult:
         matched_loss_db=matched_loss_db, mismatch_loss_db=total_loss_db - matched_loss_db,
         total_loss_db=total_loss_db, power_radio_w=power_radio, power_antenna_w=power_antenna,
         elements=tuple(elements), total_loss_db_range=loss_range,
-        warnings=tuple(_range_warnings(station.feed, f, station.labels) + _element_notices(station.feed, f, station.labels)),
+        warnings=tuple(_range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
+                       + _element_notices(station.feed, f, station.labels)),
         solution=solution,
     )
 
