@@ -1,0 +1,158 @@
+"""The cable library: the YAML files of ``cable_data/`` read into fitted `Cable` objects.
+
+Each entry states its matched attenuation at three or more frequencies; the library fits
+a(f) = k_c sqrt(f) + k_d f to those points (`cables.cable_from_points`) and keeps the span of
+the points as the range where the data are valid. The geometry and materials in an entry are
+documentation and the input of ``cable_data/derive_attenuation.py``; they are not used here.
+
+Units are read once, here, with `linecalc.units`; what leaves this module is SI floats.
+"""
+from __future__ import annotations
+
+import copy
+import difflib
+import functools
+from pathlib import Path
+
+import numpy as np
+import yaml
+
+from .cables import Cable, cable_from_points
+from .units import UnitError, parse_loss_db_per_m, parse_quantity
+
+CABLE_DATA_DIR = Path(__file__).resolve().parent.parent / "cable_data"
+KINDS = ("coax", "balanced")
+MIN_POINTS = 3
+# The frequency at which the listing order compares losses [Hz] (inside every entry's range).
+_ORDER_FREQUENCY_HZ = 100e6
+
+
+class LibraryError(RuntimeError):
+    """A cable-library file that cannot be read: a fault in the shipped data, not in user input."""
+
+
+def _read_files(folder: Path) -> list[tuple[Path, dict]]:
+    """Every entry of every ``*.yaml`` file in ``folder``, with the file it came from.
+
+    A file holds one entry (a mapping) or a family of entries (a list of mappings).
+    """
+    entries = []
+    for path in sorted(folder.glob("*.yaml")):
+        with path.open(encoding="utf-8") as stream:
+            doc = yaml.safe_load(stream)
+        docs = doc if isinstance(doc, list) else [doc]
+        for entry in docs:
+            if not isinstance(entry, dict) or "id" not in entry:
+                raise LibraryError(f"{path}: every entry is a mapping with an 'id'")
+            entries.append((path, entry))
+    return entries
+
+
+@functools.lru_cache(maxsize=1)
+def _parsed_entries() -> tuple[tuple[Path, dict], ...]:
+    entries = _read_files(CABLE_DATA_DIR)
+    if not entries:
+        raise LibraryError(f"no cable files (*.yaml) in {CABLE_DATA_DIR}")
+    seen: dict[str, Path] = {}
+    for path, entry in entries:
+        if entry["id"] in seen:
+            raise LibraryError(f"{path}: cable id {entry['id']!r} is also in {seen[entry['id']]}")
+        seen[entry["id"]] = path
+    return tuple(entries)
+
+
+def library_entries() -> list[dict]:
+    """The raw parsed entries of the library, in file order, for listing and checks.
+
+    Returns
+    -------
+    list of dict
+        A copy of each entry as written (values still text with units); each carries the
+        name of its file under the extra key ``_file``.
+    """
+    result = []
+    for path, entry in _parsed_entries():
+        item = copy.deepcopy(entry)
+        item["_file"] = path.name
+        result.append(item)
+    return result
+
+
+def _value(entry: dict, key: str, where: str):
+    node = entry.get(key)
+    if not isinstance(node, dict) or "value" not in node:
+        raise LibraryError(f"{where}: {key} is a mapping {{value: ..., source: ...}}")
+    return node["value"]
+
+
+def _build(path: Path, entry: dict) -> Cable:
+    where = f"{path.name} ({entry['id']})"
+    kind = entry.get("kind")
+    if kind not in KINDS:
+        raise LibraryError(f"{where}: kind is one of {', '.join(KINDS)}, got {kind!r}")
+    try:
+        z0_ohm = parse_quantity(_value(entry, "nominal_impedance", where), "ohm")
+        velocity_factor = float(_value(entry, "velocity_factor", where))
+        voltage = entry.get("max_voltage")
+        max_voltage_v = None if voltage is None else parse_quantity(_value(entry, "max_voltage", where), "V")
+        points = (entry.get("attenuation") or {}).get("points")
+        if not isinstance(points, dict) or len(points) < MIN_POINTS:
+            raise LibraryError(f"{where}: attenuation.points holds {MIN_POINTS} or more frequency: loss pairs")
+        frequency_hz = np.array([parse_quantity(f, "Hz") for f in points])
+        loss_db_per_m = np.array([parse_loss_db_per_m(loss) for loss in points.values()])
+    except UnitError as exc:
+        raise LibraryError(f"{where}: {exc}") from None
+    if not (z0_ohm > 0 and 0 < velocity_factor <= 1):
+        raise LibraryError(f"{where}: impedance must be positive and velocity factor in (0, 1]")
+    if not (np.all(frequency_hz > 0) and np.all(loss_db_per_m > 0)):
+        raise LibraryError(f"{where}: attenuation points need positive frequencies and losses")
+    return cable_from_points(entry["id"], str(entry.get("description", "")), kind, z0_ohm, velocity_factor,
+                             frequency_hz, loss_db_per_m, max_voltage_v)
+
+
+@functools.lru_cache(maxsize=1)
+def _cables() -> tuple[Cable, ...]:
+    cables = [_build(path, entry) for path, entry in _parsed_entries()]
+    # Listing order: coax before balanced, then by impedance, then the lossiest first.
+    return tuple(sorted(cables, key=lambda c: (KINDS.index(c.kind), round(c.z0_nominal_ohm),
+                                               -float(c.matched_loss_db_per_m(_ORDER_FREQUENCY_HZ)), c.id)))
+
+
+def load_library() -> dict[str, Cable]:
+    """The cable library, by id: each entry fitted to its attenuation points (read once, cached).
+
+    Returns
+    -------
+    dict of str to Cable
+        A new dict on each call (the `Cable` objects are frozen and shared), ordered coax first,
+        then by nominal impedance, then from the lossiest cable down.
+
+    Raises
+    ------
+    LibraryError
+        When a file of ``cable_data/`` is malformed.
+    """
+    return {cable.id: cable for cable in _cables()}
+
+
+def nearest_ids(name: str, n: int = 3) -> list[str]:
+    """Library ids closest to ``name``, for "unknown cable id, did you mean ..." messages.
+
+    Parameters
+    ----------
+    name : str
+        The id that was not found.
+    n : int
+        At most this many suggestions.
+
+    Returns
+    -------
+    list of str
+        Close matches, best first (`difflib.get_close_matches`), then ids that contain ``name``
+        (so that ``window`` finds ``window-line-450``); empty when nothing is close.
+    """
+    ids = [entry["id"] for _, entry in _parsed_entries()]
+    wanted = name.strip().lower().replace("_", "-").replace(" ", "-")
+    close = difflib.get_close_matches(wanted, ids, n=n, cutoff=0.6)
+    containing = [i for i in ids if len(wanted) >= 3 and wanted in i and i not in close]
+    return (close + containing)[:n]
