@@ -133,7 +133,8 @@ def main(argv=None) -> int:
         stored = (entry.get("attenuation") or {}).get("points") or {}
         stored_by_f = {parse_quantity(k, "Hz"): parse_loss_db_per_m(v) for k, v in stored.items()}
         z0 = geometry_z0_ohm(entry)
-        print(f"{entry['id']}  ({entry['_file']}): geometry Z0 = {z0:.1f} ohm, nominal {entry['nominal_impedance']['value']}")
+        nominal = entry["nominal_impedance"]["value"]
+        print(f"{entry['id']}  ({entry['_file']}): geometry Z0 = {z0:.1f} ohm, nominal {nominal}")
         print("  frequency    derived dB/100m   stored dB/100m")
         for fi, ai in zip(f, loss):
             old = stored_by_f.get(fi)
