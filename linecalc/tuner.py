@@ -4,12 +4,8 @@ Conventions follow elements.py: chain matrices have shape (..., nf, 2, 2) and ma
 (antenna side) state [V, I] to the input (radio side); phasors are RMS, net power is Re(V I*).
 A network is a ladder of parts listed from input to output; a part sits in series (impedance
 Z) or in shunt (admittance Y). Every part uses the series-resistance loss model Z = R + jX,
-R = |X| / Q.
-
-A design takes the impedance the network must match (the load at its output) and a real
-reference resistance R0, and returns per load point the least-loss setting whose input SWR
-against R0 is at most ``MATCHED_SWR`` with every part inside its range; where there is none,
-the closest setting (least input SWR inside the ranges) with ``matched`` False.
+R = |X| / Q. A design returns, per load point, the least-loss setting that matches the load
+to a real reference R0 with every part inside its range, or else the closest setting.
 """
 from __future__ import annotations
 
