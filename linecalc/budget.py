@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .loads import ImpedanceTable, SwrTable, rho_from_impedance
-from .solver import PathSolution, reflection, solve_path, swr_from_rho
+from .solver import PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
 # converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
@@ -84,6 +84,38 @@ def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
         return rho_from_impedance(antenna.impedance_at(frequency_hz), z_ref_ohm)
     phase = np.exp(2j * np.pi * np.arange(PHASE_SAMPLES) / PHASE_SAMPLES)
     return antenna.rho_magnitude_at(frequency_hz)[None, :] * phase[:, None]
+
+
+def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
+    """Every element's chain matrix; a tuner is first designed for the load it sees.
+
+    Tuners are designed from the antenna toward the radio, each for the impedance looking into
+    the path beyond it. Returns the list and a dict element index -> tuner design.
+    """
+    abcd_list = [None if hasattr(element, "design") else element.abcd(frequency_hz) for element in feed]
+    designs = {}
+    for k in reversed(range(len(feed))):
+        if abcd_list[k] is None:
+            z_load = input_impedance(abcd_list[k + 1:], rho_antenna, z_ref_ohm)
+            designs[k] = feed[k].design(frequency_hz, z_load)
+            abcd_list[k] = designs[k].abcd
+    return abcd_list, designs
+
+
+def _tuner_warnings(feed, designs, labels, swr_in_by_element):
+    """A warning for every row where a tuner cannot match, naming the band and the SWR it sees."""
+    warnings = []
+    for k, design in designs.items():
+        matched = np.all(design.matched, axis=0) if design.matched.ndim > 1 else design.matched
+        load_swr = swr_from_rho(np.abs(rho_from_impedance(design.z_load_ohm, design.r0_ohm)))
+        if load_swr.ndim > 1:
+            load_swr = load_swr.max(axis=0)
+        failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input)"
+                  for i, label in enumerate(labels) if not matched[i]]
+        if failed:
+            warnings.append(f"tuner {feed[k].label} cannot match on {', '.join(failed)}; "
+                            "solved at its closest setting")
+    return warnings
 
 
 def _port_swr(solution, feed, frequency_hz, swr_only):
@@ -168,7 +200,7 @@ def solve_budget(station: Station) -> BudgetResult:
     swr_only = isinstance(station.antenna, SwrTable)
 
     rho_antenna = _antenna_rho(station.antenna, f, z_ref)
-    abcd_list = [element.abcd(f) for element in station.feed]
+    abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref)
     solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
 
     swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
@@ -183,7 +215,8 @@ def solve_budget(station: Station) -> BudgetResult:
     for k, element in enumerate(station.feed):
         readings = {}
         if hasattr(element, "readings"):
-            readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean)
+            readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean,
+                                        designs.get(k))
         elements.append(ElementBudget(
             kind=element.kind, label=element.label,
             loss_db=10 * np.log10(power_w[k] / power_w[k + 1]),
@@ -215,6 +248,7 @@ def solve_budget(station: Station) -> BudgetResult:
         total_loss_db=total_loss_db, power_radio_w=power_radio, power_antenna_w=power_antenna,
         elements=tuple(elements), total_loss_db_range=loss_range,
         warnings=tuple(_range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
+                       + _tuner_warnings(station.feed, designs, station.labels, swr_in)
                        + _element_notices(station.feed, f, station.labels)),
         solution=solution,
     )

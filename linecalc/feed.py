@@ -11,13 +11,18 @@ Defaults, all documented in the README where the key is:
 - meter: ``impedance`` the radio's reference impedance.
 - series / shunt parts: ``inductor_q`` 100, ``capacitor_q`` 1000 (common practice), the
   resistor ideal.
+- tuner: ``network`` T; ``capacitance`` 10 pF to 500 pF and ``inductance`` 0.05 uH to 30 uH for
+  every capacitor and inductor (common practice for a wide-range manual tuner, from memory);
+  ``inductor_q`` 100, ``capacitor_q`` 1000; ``max_swr`` 3 for ``network: builtin`` (common
+  practice: built-in tuners match up to about 3:1); ``output`` unbalanced.
 """
 from __future__ import annotations
 
 import numpy as np
 
 from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
-from .elements import Attenuating, LumpedPart, Line, Meter, Stub, Transformer
+from .elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from .tuner import TunerParts
 from .schema import frequency_table, mapping, number, quantity, string
 from .units import UnitError, parse_impedance, parse_loss_db_per_m
 
@@ -27,6 +32,9 @@ CHOKE_MIN_COMMON_MODE_OHM = 500.0
 BALUN_LOSS_DB = 0.2
 INDUCTOR_Q = 100.0
 CAPACITOR_Q = 1000.0
+TUNER_CAPACITANCE_F = (10e-12, 500e-12)
+TUNER_INDUCTANCE_H = (0.05e-6, 30e-6)
+TUNER_MAX_SWR = 3.0
 
 
 _POINTS_KEYS = ("impedance", "velocity_factor", "loss")
@@ -247,9 +255,40 @@ def _stub(doc, ctx, index, z_ref_ohm):
                 end == "short", z_ref_ohm)
 
 
+def _range(doc, ctx, key, unit, default):
+    """A component range {min: ..., max: ...} in ``unit``; an empty or inverted range is refused."""
+    if key not in doc:
+        return default
+    where = ctx.child(doc, key)
+    limits = mapping(doc[key], where, required=("min", "max"))
+    low = quantity(limits, "min", where, unit)
+    high = quantity(limits, "max", where, unit)
+    if not high > low:
+        raise where.error(f"the range is empty or inverted: min {limits['min']} is not below max {limits['max']}")
+    return low, high
+
+
+def _tuner(doc, ctx, index, z_ref_ohm):
+    doc = doc or {}
+    mapping(doc, ctx, optional=("network", "capacitance", "inductance", "inductor_q", "capacitor_q", "max_swr",
+                                "output", "label"))
+    network = doc.get("network", "T")
+    if network not in ("L", "T", "builtin"):
+        raise ctx.child(doc, "network").error(f"network is L, T or builtin, got {network!r}")
+    if "max_swr" in doc and network != "builtin":
+        raise ctx.child(doc, "max_swr").error("max_swr belongs to network: builtin")
+    c_min, c_max = _range(doc, ctx, "capacitance", "F", TUNER_CAPACITANCE_F)
+    l_min, l_max = _range(doc, ctx, "inductance", "H", TUNER_INDUCTANCE_H)
+    parts = TunerParts(c_min, c_max, l_min, l_max, _q(doc, ctx, "inductor_q", INDUCTOR_Q),
+                       _q(doc, ctx, "capacitor_q", CAPACITOR_Q))
+    max_swr = number(doc, "max_swr", ctx, low=1, low_open=False) if "max_swr" in doc else TUNER_MAX_SWR
+    return Tuner(_label(doc, ctx, "tuner", index), network, parts, z_ref_ohm, max_swr,
+                 _side(doc, ctx, "output", "unbalanced"))
+
+
 # Element builders by key in the feed list; each takes (settings, context, index, z_ref_ohm).
 ELEMENT_BUILDERS = {"line": _line, "connector": _connector, "choke": _choke, "balun": _balun, "meter": _meter,
-                    "series": _part("series"), "shunt": _part("shunt"), "stub": _stub}
+                    "series": _part("series"), "shunt": _part("shunt"), "stub": _stub, "tuner": _tuner}
 
 
 def build_feed(doc, ctx, z_ref_ohm):

@@ -21,6 +21,15 @@ def _finite_or_none(value):
     return value if math.isfinite(value) else None
 
 
+def _json_value(value):
+    """A reading as JSON: booleans and text as they are, numbers finite or None."""
+    if isinstance(value, (bool, np.bool_)):
+        return bool(value)
+    if isinstance(value, (str, np.str_)):
+        return str(value)
+    return _finite_or_none(value)
+
+
 def _pair(z):
     if z is None:
         return None
@@ -47,7 +56,7 @@ def budget_document(result: BudgetResult) -> dict:
                 {"kind": e.kind, "label": e.label, "loss_db": float(e.loss_db[i]),
                  "matched_loss_db": float(e.matched_loss_db[i]), "dissipated_w": float(e.dissipated_w[i]),
                  "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i]),
-                 **{key: _finite_or_none(values[i]) for key, values in e.readings.items()}}
+                 **{key: _json_value(values[i]) for key, values in e.readings.items()}}
                 for e in result.elements
             ],
         }
@@ -71,18 +80,38 @@ def _swr_text(swr):
     return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
 
 
+def _tuner_cells(element, i):
+    """A tuner's setting on one row: arrangement, part values and whether it matched."""
+    readings = element.readings
+    values = []
+    for key, array in readings.items():
+        if key.endswith("_pf"):
+            values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.0f} pF")
+        elif key.endswith("_uh"):
+            values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.2f} uH")
+    matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
+    return [matched, str(readings["arrangement"][i]), ", ".join(values)]
+
+
 def budget_table(result: BudgetResult) -> str:
-    """One row per band or frequency, with the path's losses and the watts that reach the antenna."""
-    headers = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB",
-               "total loss dB", "antenna W", "path heat W"]
+    """One row per band or frequency, with the path's losses and the watts that reach the antenna;
+    then each element's loss and heat, each meter's reading and each tuner's setting."""
+    tuners = [e for e in result.elements if e.kind == "tuner"]
+    meters = [e for e in result.elements if e.kind == "meter"]
     swr_only = result.total_loss_db_range is not None
+    headers = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB", "total loss dB"]
+    if tuners:
+        headers.append("tuner loss dB")
+    headers += ["antenna W", "path heat W"]
     if swr_only:
         headers.append("loss range dB")
     body = []
     for i, label in enumerate(result.labels):
         row = [label, f"{result.frequency_hz[i] / 1e6:.4g}", _swr_text(result.swr_antenna[i]), _swr_text(result.swr_radio[i]),
-               f"{result.matched_loss_db[i]:.2f}", f"{result.mismatch_loss_db[i]:.2f}", f"{result.total_loss_db[i]:.2f}",
-               f"{result.power_antenna_w[i]:.1f}", f"{result.power_radio_w[i] - result.power_antenna_w[i]:.1f}"]
+               f"{result.matched_loss_db[i]:.2f}", f"{result.mismatch_loss_db[i]:.2f}", f"{result.total_loss_db[i]:.2f}"]
+        if tuners:
+            row.append(f"{sum(e.loss_db[i] for e in tuners):.2f}")
+        row += [f"{result.power_antenna_w[i]:.1f}", f"{result.power_radio_w[i] - result.power_antenna_w[i]:.1f}"]
         if swr_only:
             low, high = result.total_loss_db_range[i]
             row.append(f"{low:.2f} to {high:.2f}")
@@ -90,18 +119,22 @@ def budget_table(result: BudgetResult) -> str:
     lines = [f"{result.station}: {result.radio_power_w:g} W from the radio, "
              f"SWR at the radio against {result.reference_impedance_ohm:g} ohm", ""]
     lines.append(tabulate(body, headers=headers, disable_numparse=True, stralign="right"))
-    element_rows = [[e.kind, e.label] + [f"{e.loss_db[i]:.2f} dB / {e.dissipated_w[i]:.1f} W" for i in range(len(result.labels))]
-                    for e in result.elements]
-    if element_rows:
-        lines += ["", "Loss and heat in each element:",
-                  tabulate(element_rows, headers=["element", "label", *result.labels], disable_numparse=True)]
-    meters = [e for e in result.elements if e.kind == "meter"]
+    if result.elements:
+        element_rows = [[label] + [f"{e.loss_db[i]:.2f} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
+                        for i, label in enumerate(result.labels)]
+        lines += ["", "Loss and heat in each element, radio to antenna:",
+                  tabulate(element_rows, headers=["row", *(f"{e.kind}: {e.label}" for e in result.elements)],
+                           disable_numparse=True)]
     if meters:
-        meter_rows = [[e.label] + [f"SWR {_swr_text(e.readings['swr'][i])}, forward {e.readings['forward_w'][i]:.1f} W, "
-                                   f"reflected {e.readings['reflected_w'][i]:.1f} W" for i in range(len(result.labels))]
-                      for e in meters]
+        meter_rows = [[label] + [f"SWR {_swr_text(e.readings['swr'][i])}, fwd {e.readings['forward_w'][i]:.1f} W, "
+                                 f"refl {e.readings['reflected_w'][i]:.1f} W" for e in meters]
+                      for i, label in enumerate(result.labels)]
         lines += ["", "What each in-line meter reads:",
-                  tabulate(meter_rows, headers=["meter", *result.labels], disable_numparse=True)]
+                  tabulate(meter_rows, headers=["row", *(e.label for e in meters)], disable_numparse=True)]
+    for tuner in tuners:
+        rows = [[label] + _tuner_cells(tuner, i) for i, label in enumerate(result.labels)]
+        lines += ["", f"Tuner {tuner.label} (parts from the radio side to the antenna side):",
+                  tabulate(rows, headers=["row", "match", "arrangement", "settings"], disable_numparse=True)]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE]
     return "\n".join(lines) + "\n"

@@ -70,6 +70,27 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     return PathSolution(voltage, current, power, power[..., :-1, :] - power[..., 1:, :])
 
 
+def input_impedance(abcd_list, rho_load, z_ref_load_ohm):
+    """Impedance looking into a cascade toward its load [ohm] (the load itself for an empty list).
+
+    Parameters
+    ----------
+    abcd_list : sequence of ndarray, each (..., nf, 2, 2)
+        Chain matrices from the input toward the load.
+    rho_load, z_ref_load_ohm
+        The load, as in `solve_path`.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
+    """
+    rho_load = np.asarray(rho_load, dtype=complex)
+    v, i = 1 + rho_load, (1 - rho_load) / z_ref_load_ohm
+    for abcd in reversed(abcd_list):
+        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
+    return v / i
+
+
 def reflection(voltage_v, current_a, z0_ohm):
     """Voltage reflection coefficient rho = (V - Z0 I)/(V + Z0 I) of the node state against Z0.
 
