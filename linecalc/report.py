@@ -85,10 +85,13 @@ def _tuner_cells(element, i):
     readings = element.readings
     values = []
     for key, array in readings.items():
+        value = array[i]
+        if key.endswith(("_pf", "_uh")) and not np.isfinite(value):
+            continue  # a part that this row's arrangement leaves out
         if key.endswith("_pf"):
-            values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.0f} pF")
+            values.append(f"{key[:-3].replace('_', ' ')} {value:.0f} pF")
         elif key.endswith("_uh"):
-            values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.2f} uH")
+            values.append(f"{key[:-3].replace('_', ' ')} {value:.2f} uH")
     matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
     return [matched, str(readings["arrangement"][i]), ", ".join(values)]
 
