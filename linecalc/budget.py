@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .loads import ImpedanceTable, SwrTable, rho_from_impedance
-from .solver import PathSolution, input_impedance, reflection, solve_path, swr_from_rho
+from .solver import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
 # converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
@@ -34,6 +34,16 @@ class Station:
     antenna: ImpedanceTable | SwrTable
     feed: tuple = ()
     region: int = 2
+    source_file: str = "<station>"
+    key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
+
+
+class BudgetError(ValueError):
+    """A station that loads but cannot be solved as described; ``key`` is the key path at fault."""
+
+    def __init__(self, message, key):
+        self.key = key
+        super().__init__(message)
 
 
 @dataclass(frozen=True)
@@ -201,7 +211,12 @@ def solve_budget(station: Station) -> BudgetResult:
 
     rho_antenna = _antenna_rho(station.antenna, f, z_ref)
     abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref)
-    solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
+    try:
+        solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
+    except NoNetPowerError as exc:
+        rows = ", ".join(label for label, dead in zip(station.labels, exc.mask) if dead)
+        raise BudgetError(f"the path accepts no net power on {rows}: a lossless path into a pure reactance, "
+                          "a short or an open cannot take the radio's power", "antenna") from None
 
     swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
     rho_radio = reflection(solution.voltage_v[..., 0, :], solution.current_a[..., 0, :], z_ref)

@@ -34,12 +34,22 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def _solve(station):
+    """Solve a loaded station; a station that cannot be solved as described is bad input."""
+    from .budget import BudgetError, solve_budget
+    from .station import StationError
+
+    try:
+        return solve_budget(station)
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+
+
 def _run_budget(args) -> int:
     from . import report
-    from .budget import solve_budget
     from .station import load_station
 
-    result = solve_budget(load_station(args.station))
+    result = _solve(load_station(args.station))
     render = {"table": report.budget_table, "json": report.budget_json, "csv": report.budget_csv}[args.format]
     sys.stdout.write(render(result))
     for warning in result.warnings:

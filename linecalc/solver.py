@@ -10,6 +10,22 @@ from dataclasses import dataclass
 import numpy as np
 
 
+# Net power below this fraction of the apparent power |V||I| at the radio end is rounding
+# residue: the path accepts no power (a lossless path into a pure reactance, a short or an open).
+NO_POWER_FRACTION = 1e-12
+
+
+class NoNetPowerError(ValueError):
+    """The path accepts no net power at some frequencies, so no radio power can be delivered.
+
+    ``mask`` marks those frequencies (over the frequency axis, any leading axis reduced).
+    """
+
+    def __init__(self, mask):
+        self.mask = mask
+        super().__init__("the path accepts no net power: a lossless path into a pure reactance, a short or an open")
+
+
 @dataclass(frozen=True)
 class PathSolution:
     """Voltage, current and power at every node, dissipation in every element.
@@ -42,6 +58,12 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     -------
     PathSolution
 
+    Raises
+    ------
+    NoNetPowerError
+        Where the net power at the radio end is rounding residue (below ``NO_POWER_FRACTION`` of
+        |V||I|): no power can flow, and scaling to the radio's power would divide by noise.
+
     Notes
     -----
     At the antenna V = 1 + rho, I = (1 - rho)/Z_ref; each element maps its output to its input,
@@ -64,6 +86,9 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     voltage = np.stack([np.broadcast_to(v, shape) for v in reversed(voltages)], -2)  # (..., n+1, nf)
     current = np.stack([np.broadcast_to(i, shape) for i in reversed(currents)], -2)
     power_raw = (voltage * current.conj()).real
+    no_power = power_raw[..., 0, :] <= NO_POWER_FRACTION * np.abs(voltage[..., 0, :]) * np.abs(current[..., 0, :])
+    if np.any(no_power):
+        raise NoNetPowerError(np.any(no_power.reshape(-1, no_power.shape[-1]), axis=0))
     scale = np.sqrt(radio_power_w / power_raw[..., :1, :])
     voltage, current = voltage * scale, current * scale
     power = power_raw * scale**2

@@ -101,7 +101,8 @@ def station_from_document(doc, file="<station>") -> Station:
     feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
     region = doc.get("region", 2)
     return Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
-                   frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region)
+                   frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region,
+                   source_file=str(file), key_lines={"antenna": ctx.child(doc, "antenna").line})
 
 
 def parse_station_text(text, file="<station>") -> Station:

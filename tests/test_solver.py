@@ -505,13 +505,8 @@ def test_length_axis_broadcasts_with_a_phase_axis():
 
 # --- known bug -------------------------------------------------------------------------------
 
-@pytest.mark.xfail(strict=True, reason=(
-    "BUG in linecalc/solver.py solve_path: a lossless path into a pure reactance accepts no net "
-    "power, yet the solver divides the radio power by Re(V I*) at the radio end, which is zero "
-    "(NaN results) or a rounding residue (the whole radio power booked as heat in a lossless "
-    "line, at gigavolt node voltages); it should refuse the path"))
 @pytest.mark.parametrize("line_count", [0, 1])
-def test_bug_lossless_path_into_a_reactance_is_refused_not_scaled_to_noise(line_count):
+def test_lossless_path_into_a_reactance_is_refused_not_scaled_to_noise(line_count):
     # A lossless line dissipates nothing (R' = G' = 0; Pozar, 4th ed., section 2.1), and a pure
     # reactance (|rho| = 1) absorbs nothing: no radio power can flow. Either refuse the path
     # (ValueError), or book no heat in the line and no NaN; never 100 W of heat.
