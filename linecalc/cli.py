@@ -29,6 +29,20 @@ def build_parser() -> argparse.ArgumentParser:
     budget.add_argument("--format", choices=("table", "json", "csv"), default="table",
                         help="output format (default: table)")
 
+    compare = commands.add_parser("compare", help="rank alternatives band by band: other feedlines, tuner "
+                                  "positions, other lengths of a line")
+    compare.add_argument("station", help="station file (YAML); its compare: key may list the alternatives")
+    compare.add_argument("--cable", action="append", default=[], metavar="ID",
+                         help="a library cable for the main line (repeat for more)")
+    compare.add_argument("--tuner-positions", action="store_true",
+                         help="compare the tuner at the radio end and at the antenna end of the main line")
+    compare.add_argument("--main-line", metavar="LABEL", help="the line to replace or move around (default: the longest)")
+    compare.add_argument("--lengths", nargs="+", metavar="LENGTH",
+                         help="lengths to try for the main line (or --line), each with its unit: 1m 2.5m 10ft")
+    compare.add_argument("--line", metavar="LABEL", help="the line whose length --lengths varies")
+    compare.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                         help="output format (default: table)")
+
     cables = commands.add_parser("cables", help="list the cable library with its matched loss")
     cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
     return parser
@@ -53,6 +67,61 @@ def _run_budget(args) -> int:
     render = {"table": report.budget_table, "json": report.budget_json, "csv": report.budget_csv}[args.format]
     sys.stdout.write(render(result))
     for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+    return EXIT_OK
+
+
+class OptionError(ValueError):
+    """A bad command-line option value: exit status 2, naming the option."""
+
+
+def _compare_spec(args, spec):
+    """The station file's compare: key, extended by the command-line options."""
+    from .compare import CompareSpec
+    from .units import UnitError, parse_quantity
+
+    cables = tuple(spec.cables) if spec else ()
+    if args.cable:
+        from . import library
+
+        known = library.load_library()
+        for cable_id in args.cable:
+            if cable_id not in known:
+                near = library.nearest_ids(cable_id)
+                hint = f"; did you mean {', '.join(near)}?" if near else ""
+                raise OptionError(f"--cable: unknown cable id {cable_id!r}{hint}")
+            cables += ((cable_id, known[cable_id]),)
+    lengths = tuple(spec.lengths_m) if spec else ()
+    if args.lengths:
+        try:
+            lengths = tuple(parse_quantity(text, "m") for text in args.lengths)
+        except UnitError as exc:
+            raise OptionError(f"--lengths: {exc}") from None
+        if any(length <= 0 for length in lengths):
+            raise OptionError("--lengths: every length must be greater than zero")
+    return CompareSpec(main_line=args.main_line or (spec.main_line if spec else None), cables=cables,
+                       tuner_positions=args.tuner_positions or bool(spec and spec.tuner_positions),
+                       line=args.line or (spec.line if spec else None), lengths_m=lengths)
+
+
+def _run_compare(args) -> int:
+    from . import report
+    from .budget import BudgetError
+    from .compare import CompareError, alternatives_from_spec, compare
+    from .station import StationError, load_station_and_compare
+
+    station, spec = load_station_and_compare(args.station)
+    spec = _compare_spec(args, spec)
+    line = station.key_lines.get("compare") if spec else None
+    try:
+        comparison = compare(station, alternatives_from_spec(station, spec))
+    except CompareError as exc:
+        raise StationError(station.source_file, line or station.key_lines.get("feed", 1), str(exc), "compare") from None
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+    render = {"table": report.compare_table, "json": report.compare_json, "csv": report.compare_csv}[args.format]
+    sys.stdout.write(render(comparison))
+    for warning in comparison.warnings:
         print(f"warning: {warning}", file=sys.stderr)
     return EXIT_OK
 
@@ -82,9 +151,12 @@ def main(argv=None) -> int:
     from .station import StationError
 
     try:
-        return {"budget": _run_budget, "cables": _run_cables}[args.command](args)
+        return {"budget": _run_budget, "compare": _run_compare, "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except OptionError as exc:
+        print(f"linecalc {args.command}: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         return EXIT_OK

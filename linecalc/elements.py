@@ -47,6 +47,34 @@ def line_abcd(z0_ohm, gamma_per_m, length_m):
     return np.stack([np.stack([cosh, z0 * sinh], -1), np.stack([sinh / z0, cosh], -1)], -2)
 
 
+def closed_form_line_loss_db(matched_loss_db, rho_load_magnitude):
+    """Total loss of a line with a mismatched load, by the closed-form formula for a line of real
+    characteristic impedance.
+
+    Parameters
+    ----------
+    matched_loss_db : array_like
+        The line's matched loss ML [dB].
+    rho_load_magnitude : array_like
+        |rho| of the load against the line's characteristic impedance [1].
+
+    Returns
+    -------
+    ndarray
+        10 log10[(a^2 - |rho|^2) / (a (1 - |rho|^2))] with a = 10^(ML/10) [dB]. Exact for a real
+        Z0; through a real cable (complex Z0) it is the average over the load's phase, while the
+        exact loss of one load depends on where the current peaks fall along the line.
+
+    References
+    ----------
+    ARRL Antenna Book, transmission-line chapter (total loss with SWR), from memory of its form;
+    it follows from P(z) = (|V+(z)|^2 - |V-(z)|^2)/Z0 on a line of real Z0 (Pozar, 4th ed., 2.7).
+    """
+    a = 10 ** (np.asarray(matched_loss_db, dtype=float) / 10)
+    rho2 = np.asarray(rho_load_magnitude, dtype=float) ** 2
+    return 10 * np.log10((a * a - rho2) / (a * (1 - rho2)))
+
+
 @dataclass(frozen=True)
 class Line:
     """A length of cable. ``length_m`` may be an array: its axes lead the results."""

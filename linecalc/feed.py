@@ -117,7 +117,8 @@ def _inline_cable(doc, ctx, label):
                                   material("material"), factor("conductor_factor"), max_voltage)
 
 
-def _cable(value, ctx, label):
+def read_cable(value, ctx, label):
+    """A library id or an inline cable (points or geometry) -> `Cable`."""
     if isinstance(value, str):
         from . import library  # the library is read only when a station names one of its cables
 
@@ -137,7 +138,7 @@ def _label(doc, ctx, kind, index):
 def _line(doc, ctx, index, z_ref_ohm):
     mapping(doc, ctx, required=("cable", "length"), optional=("label",))
     label = _label(doc, ctx, "line", index)
-    cable = _cable(doc["cable"], ctx.child(doc, "cable"), label)
+    cable = read_cable(doc["cable"], ctx.child(doc, "cable"), label)
     length = quantity(doc, "length", ctx, "m")
     return Line(cable=cable, length_m=length, label=label)
 
@@ -251,7 +252,7 @@ def _stub(doc, ctx, index, z_ref_ohm):
     end = doc["end"]
     if end not in ("open", "short"):
         raise ctx.child(doc, "end").error(f"end is open or short, got {end!r}")
-    return Stub(label, _cable(doc["cable"], ctx.child(doc, "cable"), label), quantity(doc, "length", ctx, "m"),
+    return Stub(label, read_cable(doc["cable"], ctx.child(doc, "cable"), label), quantity(doc, "length", ctx, "m"),
                 end == "short", z_ref_ohm)
 
 

@@ -178,3 +178,70 @@ def cables_table(rows, frequencies_hz) -> str:
         body.append([cable_id, kind, f"{z0:.0f}", f"{vf:.2f}", *cells, description])
     return ("Matched loss in dB per 100 m / per 100 ft\n\n"
             + tabulate(body, headers=headers, disable_numparse=True) + "\n")
+
+
+def compare_document(comparison) -> dict:
+    """The comparison as JSON: per row, each alternative's watts and loss, the winner and margin."""
+    rows = []
+    for i, label in enumerate(comparison.labels):
+        rows.append({
+            "label": label,
+            "frequency_hz": float(comparison.frequency_hz[i]),
+            "alternatives": [{"name": name, "power_antenna_w": float(comparison.power_antenna_w[k, i]),
+                              "total_loss_db": float(comparison.total_loss_db[k, i]),
+                              "swr_radio": _finite_or_none(comparison.results[k].swr_radio[i])}
+                             for k, name in enumerate(comparison.names)],
+            "winner": comparison.names[comparison.winner[i]],
+            "margin_db": float(comparison.margin_db[i]),
+        })
+    doc = {"station": comparison.station, "alternatives": list(comparison.names), "rows": rows,
+           "warnings": list(comparison.warnings)}
+    study = comparison.line_study
+    if study is not None:
+        doc["line_study"] = {
+            "label": study.label, "length_m": [float(v) for v in study.length_m],
+            "rows": [{"label": label,
+                      "exact_loss_db": [float(v) for v in study.exact_loss_db[:, i]],
+                      "closed_form_loss_db": [float(v) for v in study.closed_form_loss_db[:, i]],
+                      "swr_load": [_finite_or_none(v) for v in study.swr_load[:, i]]}
+                     for i, label in enumerate(comparison.labels)]}
+    return doc
+
+
+def compare_json(comparison) -> str:
+    return json.dumps(compare_document(comparison), indent=2, allow_nan=False) + "\n"
+
+
+def compare_table(comparison) -> str:
+    """Alternatives as columns (watts at the antenna and total loss), rows per band; winner and margin."""
+    key = [f"  [{k + 1}] {name}" for k, name in enumerate(comparison.names)]
+    headers = ["row", *(f"[{k + 1}] W / dB" for k in range(len(comparison.names))), "winner", "margin dB"]
+    body = []
+    for i, label in enumerate(comparison.labels):
+        cells = [f"{comparison.power_antenna_w[k, i]:.1f} / {comparison.total_loss_db[k, i]:.2f}"
+                 for k in range(len(comparison.names))]
+        body.append([label, *cells, f"[{comparison.winner[i] + 1}]", f"{comparison.margin_db[i]:.2f}"])
+    lines = [f"{comparison.station}: watts at the antenna / total loss for each alternative", "", *key, "",
+             tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+    study = comparison.line_study
+    if study is not None:
+        headers = ["row", *(f"{length:g} m" for length in study.length_m)]
+        body = [[label, *(f"{study.exact_loss_db[k, i]:.2f} ({study.closed_form_loss_db[k, i]:.2f})"
+                          for k in range(len(study.length_m)))] for i, label in enumerate(comparison.labels)]
+        lines += ["", f"Loss of {study.label} by its length: exact dB (closed-form formula dB in brackets)",
+                  "The formula averages over where the current peaks fall; the exact figure is the one this "
+                  "length gives.",
+                  tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+    return "\n".join(lines) + "\n"
+
+
+def compare_csv(comparison) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(["label", "frequency_hz", "alternative", "power_antenna_w", "total_loss_db", "winner", "margin_db"])
+    for i, label in enumerate(comparison.labels):
+        for k, name in enumerate(comparison.names):
+            writer.writerow([label, f"{comparison.frequency_hz[i]:.10g}", name,
+                             f"{comparison.power_antenna_w[k, i]:.10g}", f"{comparison.total_loss_db[k, i]:.10g}",
+                             "yes" if comparison.winner[i] == k else "", f"{comparison.margin_db[i]:.10g}"])
+    return buffer.getvalue()

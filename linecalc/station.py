@@ -12,7 +12,8 @@ import numpy as np
 
 from . import bands as band_table
 from .budget import Station
-from .feed import build_feed
+from .compare import CompareSpec
+from .feed import build_feed, read_cable
 from .loads import ImpedanceTable, SwrTable, outside_table
 from .schema import (Context, StationError, frequency_table, load_yaml_text, mapping, quantity, string)
 from .units import UnitError, parse_impedance
@@ -81,11 +82,43 @@ def _rows(doc, ctx):
     return tuple(labels), np.array(frequencies)
 
 
+def _compare_spec(doc, ctx) -> CompareSpec:
+    """The ``compare:`` key: alternatives for the main line, tuner positions, line lengths."""
+    mapping(doc, ctx, optional=("main_line", "cables", "tuner_positions", "line", "lengths"))
+    cables = ()
+    if "cables" in doc:
+        where = ctx.child(doc, "cables")
+        items = doc["cables"]
+        if not isinstance(items, list) or not items:
+            raise where.error("cables is a list of library ids or inline cables")
+        cables = tuple((item if isinstance(item, str) else f"inline cable {i + 1}",
+                        read_cable(item, where.child(items, i), f"alternative {i + 1}")) for i, item in enumerate(items))
+    tuner_positions = doc.get("tuner_positions", False)
+    if not isinstance(tuner_positions, bool):
+        raise ctx.child(doc, "tuner_positions").error(f"tuner_positions is true or false, got {tuner_positions!r}")
+    lengths = ()
+    if "lengths" in doc:
+        where = ctx.child(doc, "lengths")
+        items = doc["lengths"]
+        if not isinstance(items, list) or not items:
+            raise where.error("lengths is a list such as [1 m, 2 m, 3 m]")
+        lengths = tuple(quantity(items, i, where, "m") for i in range(len(items)))
+    labels = {key: string(doc, key, ctx) for key in ("main_line", "line") if key in doc}
+    spec = CompareSpec(labels.get("main_line"), cables, tuner_positions, labels.get("line"), lengths)
+    if not (spec.cables or spec.tuner_positions or spec.lengths_m):
+        raise ctx.error("nothing to compare: give cables, tuner_positions: true or lengths")
+    return spec
+
+
 def station_from_document(doc, file="<station>") -> Station:
     """Validate a parsed station document and build the `Station`."""
+    return _station_and_compare(doc, file)[0]
+
+
+def _station_and_compare(doc, file):
     ctx = Context(file, "", getattr(doc, "line", 1))
     mapping(doc, ctx, required=("name", "radio", "antenna", "feed"),
-             optional=("region", "bands", "frequencies"))
+            optional=("region", "bands", "frequencies", "compare"))
     name = string(doc, "name", ctx)
     radio_ctx = ctx.child(doc, "radio")
     radio = mapping(doc["radio"], radio_ctx, required=("power",), optional=("impedance",))
@@ -100,9 +133,12 @@ def station_from_document(doc, file="<station>") -> Station:
         raise table_ctx.error(f"{asked} outside the antenna table, which spans {span}; it is never extrapolated")
     feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
     region = doc.get("region", 2)
-    return Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
-                   frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region,
-                   source_file=str(file), key_lines={"antenna": ctx.child(doc, "antenna").line})
+    spec = _compare_spec(doc["compare"], ctx.child(doc, "compare")) if "compare" in doc else None
+    station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
+                      frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, source_file=str(file),
+                      key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
+                                 "compare": ctx.child(doc, "compare").line})
+    return station, spec
 
 
 def parse_station_text(text, file="<station>") -> Station:
@@ -112,9 +148,14 @@ def parse_station_text(text, file="<station>") -> Station:
 
 def load_station(path) -> Station:
     """Read and validate a station file."""
+    return load_station_and_compare(path)[0]
+
+
+def load_station_and_compare(path) -> tuple[Station, CompareSpec | None]:
+    """Read and validate a station file, with what its ``compare:`` key asks (None without one)."""
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8")
     except (OSError, UnicodeDecodeError) as exc:
         raise StationError(path, 0, f"cannot read the station file: {exc.strerror if isinstance(exc, OSError) else exc}") from None
-    return parse_station_text(text, path)
+    return _station_and_compare(load_yaml_text(text, path), path)

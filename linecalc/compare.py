@@ -1,0 +1,227 @@
+"""Compare alternatives of one station band by band: other feedlines for the main line, the tuner
+at the radio or at the feedpoint, other lengths of one line.
+
+An orchestrator beside budget.py: it builds variant stations, solves each with `solve_budget`
+and ranks them. It holds no formulas of its own.
+
+Rules for a change of line kind (documented in the README):
+- coax -> balanced line: the element in front of the line must offer a balanced port. A tuner
+  right in front becomes a balanced tuner; otherwise a 1:1 balun (default loss) is inserted in
+  front of the line.
+- balanced line -> coax: a tuner right in front becomes unbalanced, and, because the antenna was
+  fed balanced, a 1:1 choke (default loss) is inserted between the coax and the antenna side.
+"""
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+import numpy as np
+
+from .budget import BudgetResult, Station, solve_budget
+from .elements import Attenuating, Line, Transformer, closed_form_line_loss_db
+
+# Loss of the balun or choke inserted by a change of line kind [dB]: the station-file defaults.
+INSERTED_BALUN_LOSS_DB = 0.2
+INSERTED_CHOKE_LOSS_DB = 0.05
+
+
+@dataclass(frozen=True)
+class CompareSpec:
+    """What a station file asks to compare (its ``compare:`` key), already read into SI values.
+
+    ``cables`` holds (name, Cable) pairs for the main line; ``lengths_m`` the lengths to try for
+    the line labelled ``line`` (or the main line).
+    """
+
+    main_line: str | None = None
+    cables: tuple = ()
+    tuner_positions: bool = False
+    line: str | None = None
+    lengths_m: tuple = ()
+
+
+def _same_feed(a: Station, b: Station) -> bool:
+    return len(a.feed) == len(b.feed) and all(x is y for x, y in zip(a.feed, b.feed))
+
+
+def alternatives_from_spec(station: Station, spec: CompareSpec) -> list[Alternative]:
+    """Every alternative the spec names; the station as built comes first once."""
+    alternatives = cable_alternatives(station, spec.cables, spec.main_line)
+    if spec.tuner_positions:
+        # a tuner position that is the station as built is already there
+        alternatives += [a for a in tuner_alternatives(station, spec.main_line) if not _same_feed(a.station, station)]
+    if spec.lengths_m:
+        alternatives += length_alternatives(station, spec.line or spec.main_line, spec.lengths_m)
+    if len(alternatives) < 2:
+        raise CompareError("nothing to compare: give cables, tuner_positions or lengths")
+    return alternatives
+
+
+class CompareError(ValueError):
+    """A comparison that cannot be built: no alternatives, no line to vary, no tuner to move."""
+
+
+@dataclass(frozen=True)
+class Alternative:
+    """One variant to solve: a name, the station it stands for and the line whose length it varies."""
+
+    name: str
+    station: Station
+    varies: str | None = None
+
+
+@dataclass(frozen=True)
+class LineStudy:
+    """One line across the alternatives that change its length: its exact loss and the figure of
+    the closed-form formula, which averages over where the current peaks fall. (alternatives, rows)."""
+
+    label: str
+    alternatives: tuple[int, ...]
+    length_m: np.ndarray
+    exact_loss_db: np.ndarray
+    closed_form_loss_db: np.ndarray
+    swr_load: np.ndarray
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """Alternatives ranked per row. Arrays are (alternatives, rows) unless stated.
+
+    ``winner`` (rows,) indexes the alternative with the most watts at the antenna; ``margin_db``
+    (rows,) is how much less the winner loses than the runner-up [dB].
+    """
+
+    station: str
+    labels: tuple[str, ...]
+    frequency_hz: np.ndarray
+    names: tuple[str, ...]
+    results: tuple[BudgetResult, ...]
+    power_antenna_w: np.ndarray
+    total_loss_db: np.ndarray
+    winner: np.ndarray
+    margin_db: np.ndarray
+    warnings: tuple[str, ...] = ()
+    line_study: LineStudy | None = None
+
+
+def main_line_index(feed, label=None) -> int:
+    """Index of the main line: the line called ``label``, or else the longest line."""
+    lines = [k for k, element in enumerate(feed) if element.kind == "line"]
+    if not lines:
+        raise CompareError("the feed has no line to compare")
+    if label is not None:
+        named = [k for k in lines if feed[k].label == label]
+        if not named:
+            known = ", ".join(feed[k].label for k in lines)
+            raise CompareError(f"no line is labelled {label!r}; the lines are: {known}")
+        return named[0]
+    return max(lines, key=lambda k: float(np.max(feed[k].length_m)))
+
+
+def _offers_balanced(element) -> bool:
+    """Whether an element's antenna-side port may feed a balanced line (a choke counts as a 1:1 balun)."""
+    if element is None:
+        return False  # the radio's port
+    if element.kind == "line":
+        return element.cable.kind == "balanced"
+    return element.kind == "choke" or bool(getattr(element, "output_balanced", False))
+
+
+def _with_cable(feed, index, cable, z_ref_ohm):
+    """The feed with line ``index`` made of ``cable``, plus the balun or choke a change of kind needs."""
+    feed = list(feed)
+    old = feed[index]
+    feed[index] = dataclasses.replace(old, cable=cable)
+    if old.cable.kind == cable.kind:
+        return tuple(feed)
+    before = feed[index - 1] if index > 0 else None
+    if cable.kind == "balanced":
+        if before is not None and before.kind == "tuner":
+            feed[index - 1] = dataclasses.replace(before, output_balanced=True)
+        elif not _offers_balanced(before):
+            feed.insert(index, Transformer("balun for " + old.label, 1.0, INSERTED_BALUN_LOSS_DB, z_ref_ohm))
+        return tuple(feed)
+    if before is not None and before.kind == "tuner":
+        feed[index - 1] = dataclasses.replace(before, output_balanced=False)
+    feed.insert(index + 1, Attenuating("choke", "choke after " + old.label, INSERTED_CHOKE_LOSS_DB, z_ref_ohm))
+    return tuple(feed)
+
+
+def cable_alternatives(station: Station, cables, main_label=None) -> list[Alternative]:
+    """The station as it is, and with the main line made of each of ``cables`` (id -> Cable)."""
+    index = main_line_index(station.feed, main_label)
+    line = station.feed[index]
+    alternatives = [Alternative(f"{line.label}: {line.cable.id} (as built)", station)]
+    for name, cable in cables:
+        feed = _with_cable(station.feed, index, cable, station.reference_impedance_ohm)
+        alternatives.append(Alternative(f"{line.label}: {name}", dataclasses.replace(station, feed=feed)))
+    return alternatives
+
+
+def tuner_alternatives(station: Station, main_label=None) -> list[Alternative]:
+    """The tuner right at the radio end of the main line and right at its antenna end."""
+    tuners = [k for k, element in enumerate(station.feed) if element.kind == "tuner"]
+    if len(tuners) != 1:
+        raise CompareError(f"moving the tuner needs exactly one tuner in the feed, found {len(tuners)}")
+    tuner = station.feed[tuners[0]]
+    rest = [element for k, element in enumerate(station.feed) if k != tuners[0]]
+    index = main_line_index(tuple(rest), main_label)
+    at_radio = tuple(rest[:index]) + (tuner,) + tuple(rest[index:])
+    at_antenna = tuple(rest[:index + 1]) + (tuner,) + tuple(rest[index + 1:])
+    if rest[index].cable.kind == "balanced" and not _offers_balanced(rest[index - 1] if index > 0 else None):
+        # the line loses its balanced tuner: feed it through a 1:1 balun, as the station would need
+        balun = Transformer("balun for " + rest[index].label, 1.0, INSERTED_BALUN_LOSS_DB, station.reference_impedance_ohm)
+        at_antenna = tuple(rest[:index]) + (balun, rest[index], tuner) + tuple(rest[index + 1:])
+    return [Alternative(f"tuner at the radio end of {rest[index].label}", dataclasses.replace(station, feed=at_radio)),
+            Alternative(f"tuner at the antenna end of {rest[index].label}", dataclasses.replace(station, feed=at_antenna))]
+
+
+def length_alternatives(station: Station, label, lengths_m) -> list[Alternative]:
+    """The station with line ``label`` cut to each of ``lengths_m`` [m]."""
+    index = main_line_index(station.feed, label)
+    line = station.feed[index]
+    alternatives = []
+    for length in lengths_m:
+        feed = list(station.feed)
+        feed[index] = Line(line.cable, float(length), line.label)
+        alternatives.append(Alternative(f"{line.label}: {length:g} m", dataclasses.replace(station, feed=tuple(feed)),
+                                        varies=line.label))
+    return alternatives
+
+
+def compare(station: Station, alternatives) -> Comparison:
+    """Solve every alternative and rank them per row by watts at the antenna; where some
+    alternatives vary the length of a line, add the `LineStudy` of that line."""
+    if len(alternatives) < 2:
+        raise CompareError("a comparison needs at least two alternatives")
+    results = tuple(solve_budget(alternative.station) for alternative in alternatives)
+    power = np.array([r.power_antenna_w for r in results])
+    loss = np.array([r.total_loss_db for r in results])
+    order = np.argsort(loss, axis=0, kind="stable")
+    winner = order[0]
+    columns = np.arange(loss.shape[1])
+    margin = loss[order[1], columns] - loss[winner, columns]
+    warnings = tuple(dict.fromkeys(w for r in results for w in r.warnings))
+    return Comparison(station.name, tuple(station.labels), np.asarray(station.frequency_hz), tuple(a.name for a in alternatives),
+                      results, power, loss, winner, margin, warnings, _line_study(alternatives, results))
+
+
+def _line_study(alternatives, results):
+    """Exact and closed-form loss of the line whose length some alternatives vary (None if none do)."""
+    label = next((a.varies for a in alternatives if a.varies is not None), None)
+    if label is None:
+        return None
+    picked, lengths, exact, closed, swr = [], [], [], [], []
+    for k, (alternative, result) in enumerate(zip(alternatives, results)):
+        if alternative.varies != label:
+            continue
+        index = next(i for i, e in enumerate(alternative.station.feed) if e.kind == "line" and e.label == label)
+        element = result.elements[index]
+        rho = (element.swr_out - 1) / (element.swr_out + 1)
+        picked.append(k)
+        lengths.append(alternative.station.feed[index].length_m)
+        exact.append(element.loss_db)
+        closed.append(closed_form_line_loss_db(element.matched_loss_db, rho))
+        swr.append(element.swr_out)
+    return LineStudy(label, tuple(picked), np.array(lengths), np.array(exact), np.array(closed), np.array(swr))
