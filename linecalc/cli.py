@@ -135,7 +135,8 @@ def _run_cables(args) -> int:
 
     cables = library.load_library()
     frequency_hz = np.array(LISTING_FREQUENCIES_HZ)
-    rows = [(c.id, c.kind, c.z0_nominal_ohm, c.velocity_factor, c.description, c.matched_loss_db_per_m(frequency_hz))
+    rows = [(c.id, c.kind, c.z0_nominal_ohm, c.velocity_factor, c.description, c.matched_loss_db_per_m(frequency_hz),
+             (frequency_hz < c.data_range_hz[0]) | (frequency_hz > c.data_range_hz[1]))
             for c in cables.values()]
     if args.format == "json":
         doc = [{"id": r[0], "kind": r[1], "z0_ohm": r[2], "velocity_factor": r[3], "description": r[4],

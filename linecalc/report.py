@@ -169,15 +169,18 @@ def budget_csv(result: BudgetResult) -> str:
 def cables_table(rows, frequencies_hz) -> str:
     """The cable library: id, kind, impedance, velocity factor and matched loss at a few frequencies.
 
-    ``rows`` holds (id, kind, z0_ohm, velocity_factor, description, loss_db_per_m array).
+    ``rows`` holds (id, kind, z0_ohm, velocity_factor, description, loss_db_per_m array,
+    outside-data-range mask).
     """
     headers = ["id", "kind", "Z0 ohm", "VF"] + [f"{f / 1e6:g} MHz" for f in frequencies_hz] + ["description"]
     body = []
-    for cable_id, kind, z0, vf, description, loss_db_per_m in rows:
-        cells = [f"{100 * l:.2f} / {100 * 0.3048 * l:.2f}" for l in loss_db_per_m]
+    for cable_id, kind, z0, vf, description, loss_db_per_m, outside in rows:
+        cells = [f"{100 * loss:.2f} / {100 * 0.3048 * loss:.2f}{' *' if out else ''}"
+                 for loss, out in zip(loss_db_per_m, outside)]
         body.append([cable_id, kind, f"{z0:.0f}", f"{vf:.2f}", *cells, description])
     return ("Matched loss in dB per 100 m / per 100 ft\n\n"
-            + tabulate(body, headers=headers, disable_numparse=True) + "\n")
+            + tabulate(body, headers=headers, disable_numparse=True)
+            + "\n\n* outside the cable's data: extrapolated by its loss model\n")
 
 
 def compare_document(comparison) -> dict:
