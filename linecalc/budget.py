@@ -102,11 +102,16 @@ def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
     Tuners are designed from the antenna toward the radio, each for the impedance looking into
     the path beyond it. Returns the list and a dict element index -> tuner design.
     """
-    abcd_list = [None if hasattr(element, "design") else element.abcd(frequency_hz) for element in feed]
+    abcd_list = [None if hasattr(element, "design") else
+                 element.scaled_abcd(frequency_hz) if hasattr(element, "scaled_abcd") else element.abcd(frequency_hz)
+                 for element in feed]
     designs = {}
     for k in reversed(range(len(feed))):
         if abcd_list[k] is None:
             z_load = input_impedance(abcd_list[k + 1:], rho_antenna, z_ref_ohm)
+            if not np.all(np.isfinite(z_load) & (z_load.real > 0)):
+                raise BudgetError(f"tuner {feed[k].label} sees a load with no resistance (a short, an open or a "
+                                  "pure reactance through a lossless path): there is nothing to match", "antenna")
             designs[k] = feed[k].design(frequency_hz, z_load)
             abcd_list[k] = designs[k].abcd
     return abcd_list, designs
@@ -137,7 +142,7 @@ def _port_swr(solution, feed, frequency_hz, swr_only):
     for k, element in enumerate(feed):
         z_in, z_out = element.port_z0_ohm(frequency_hz)
         for node, z0, out in ((k, z_in, swr_in), (k + 1, z_out, swr_out)):
-            rho = reflection(solution.voltage_v[..., node, :], solution.current_a[..., node, :], z0)
+            rho = reflection(solution.state_v[..., node, :], solution.state_i[..., node, :], z0)
             out.append(swr_from_rho(np.abs(rho).mean(axis=0) if swr_only else rho))
     return swr_in, swr_out
 
@@ -185,6 +190,14 @@ def _element_notices(feed, frequency_hz, labels):
     return notices
 
 
+def _phase_mean_db(db_below_radio):
+    """dB below the radio of the phase-mean power, from per-phase dB (a log-sum-exp, so that
+    powers far below the radio's average without underflowing)."""
+    level = -db_below_radio / 10  # log10 of P / P_radio, per phase
+    top = level.max(axis=0)
+    return -10 * (top + np.log10(np.mean(10 ** (level - top), axis=0)))
+
+
 def _phase_mean(values, swr_only):
     """Average over the unknown-phase axis of an SWR-only antenna (a no-op otherwise)."""
     return values.mean(axis=0) if swr_only else values
@@ -219,9 +232,10 @@ def solve_budget(station: Station) -> BudgetResult:
                           "a short or an open cannot take the radio's power", "antenna") from None
 
     swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
-    rho_radio = reflection(solution.voltage_v[..., 0, :], solution.current_a[..., 0, :], z_ref)
+    rho_radio = reflection(solution.state_v[..., 0, :], solution.state_i[..., 0, :], z_ref)
     power_w = _phase_mean(solution.power_w, swr_only)
     dissipated_w = _phase_mean(solution.dissipated_w, swr_only)
+    db_below_radio = _phase_mean_db(solution.db_below_radio) if swr_only else solution.db_below_radio
 
     def phase_mean(values):
         return _phase_mean(values, swr_only)
@@ -234,7 +248,7 @@ def solve_budget(station: Station) -> BudgetResult:
                                         designs.get(k))
         elements.append(ElementBudget(
             kind=element.kind, label=element.label,
-            loss_db=10 * np.log10(power_w[k] / power_w[k + 1]),
+            loss_db=db_below_radio[k + 1] - db_below_radio[k],
             matched_loss_db=np.broadcast_to(element.matched_loss_db(f), f.shape),
             dissipated_w=dissipated_w[k],
             swr_in=swr_in[k], swr_out=swr_out[k], readings=readings,
@@ -245,11 +259,11 @@ def solve_budget(station: Station) -> BudgetResult:
     else:
         swr_antenna = swr_from_rho(np.abs(rho_antenna).mean(axis=0) if swr_only else rho_antenna)
     power_radio, power_antenna = power_w[0], power_w[-1]
-    total_loss_db = 10 * np.log10(power_radio / power_antenna)
+    total_loss_db = db_below_radio[-1]
     matched_loss_db = sum((e.matched_loss_db for e in elements), np.zeros_like(f))
     loss_range = None
     if swr_only:
-        per_phase = 10 * np.log10(solution.power_w[:, 0, :] / solution.power_w[:, -1, :])
+        per_phase = solution.db_below_radio[:, -1, :]
         loss_range = np.stack([per_phase.min(axis=0), per_phase.max(axis=0)], -1)
 
     return BudgetResult(
@@ -271,7 +285,7 @@ def solve_budget(station: Station) -> BudgetResult:
 
 def _impedance(solution, node):
     """Impedance V/I at a node [ohm]; infinite where no current flows (an open)."""
-    voltage = solution.voltage_v[..., node, :]
-    current = solution.current_a[..., node, :]
+    voltage = solution.state_v[..., node, :]
+    current = solution.state_i[..., node, :]
     open_circuit = current == 0
     return np.where(open_circuit, np.inf, voltage / np.where(open_circuit, 1.0, current))

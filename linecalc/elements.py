@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .cables import Cable
-from .solver import swr_from_rho, wave_powers
+from .solver import ScaledAbcd, swr_from_rho, wave_powers
 from .tuner import (BUILTIN_MAX_SWR, TunerParts, TunerSolution, component_dissipation_w, design_builtin_tuner,
                     design_l_network, design_t_network)
 
@@ -45,6 +45,29 @@ def line_abcd(z0_ohm, gamma_per_m, length_m):
     cosh, sinh = np.cosh(gl), np.sinh(gl)
     z0 = np.broadcast_to(z0_ohm, gl.shape)
     return np.stack([np.stack([cosh, z0 * sinh], -1), np.stack([sinh / z0, cosh], -1)], -2)
+
+
+def line_abcd_scaled(z0_ohm, gamma_per_m, length_m) -> ScaledAbcd:
+    """The line chain matrix of `line_abcd` with exp(|alpha l|) taken out, for any length.
+
+    Returns
+    -------
+    ScaledAbcd
+        matrix = [[c, Z0 s], [s/Z0, c]] with c = (e^(gl - a) + e^(-gl - a))/2,
+        s = (e^(gl - a) - e^(-gl - a))/2, a = |Re(gl)|, and log_scale = a: no exponent has a
+        positive real part, so nothing overflows however long or lossy the line.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1 (the same matrix, unscaled).
+    """
+    gl = np.asarray(length_m, dtype=float)[..., None] * gamma_per_m
+    a = np.abs(gl.real)
+    up, down = np.exp(gl - a), np.exp(-gl - a)
+    cosh, sinh = (up + down) / 2, (up - down) / 2
+    z0 = np.broadcast_to(z0_ohm, gl.shape)
+    matrix = np.stack([np.stack([cosh, z0 * sinh], -1), np.stack([sinh / z0, cosh], -1)], -2)
+    return ScaledAbcd(matrix, a)
 
 
 def closed_form_line_loss_db(matched_loss_db, rho_load_magnitude):
@@ -87,6 +110,10 @@ class Line:
     def abcd(self, frequency_hz):
         z0, gamma = self.cable.constants(frequency_hz)
         return line_abcd(z0, gamma, self.length_m)
+
+    def scaled_abcd(self, frequency_hz) -> ScaledAbcd:
+        z0, gamma = self.cable.constants(frequency_hz)
+        return line_abcd_scaled(z0, gamma, self.length_m)
 
     def port_z0_ohm(self, frequency_hz):
         z0, _ = self.cable.constants(frequency_hz)

@@ -5,6 +5,7 @@ Every error is a `StationError` that names its file, line and key path.
 from __future__ import annotations
 
 import math
+import re
 
 import numpy as np
 import yaml
@@ -62,6 +63,16 @@ def _construct_sequence(loader, node):
     return result
 
 
+# YAML 1.1 reads 4:1 as the base-60 number 241 and 1_000 as 1000: a balun ratio must stay text.
+# Numbers are resolved as in YAML 1.2 (plain decimal and exponent forms) instead.
+_LineLoader.yaml_implicit_resolvers = {
+    first: [(tag, regexp) for tag, regexp in resolvers if tag not in ("tag:yaml.org,2002:int", "tag:yaml.org,2002:float")]
+    for first, resolvers in yaml.SafeLoader.yaml_implicit_resolvers.items()}
+_LineLoader.add_implicit_resolver("tag:yaml.org,2002:int", re.compile(r"^[-+]?[0-9]+$"), list("-+0123456789"))
+_LineLoader.add_implicit_resolver(
+    "tag:yaml.org,2002:float",
+    re.compile(r"^(?:[-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?|[-+]?\.(?:inf|Inf|INF)|\.(?:nan|NaN|NAN))$"),
+    list("-+0123456789."))
 _LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _construct_mapping)
 _LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_SEQUENCE_TAG, _construct_sequence)
 

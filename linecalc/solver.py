@@ -27,16 +27,31 @@ class NoNetPowerError(ValueError):
 
 
 @dataclass(frozen=True)
+class ScaledAbcd:
+    """A chain matrix written as ``matrix * exp(log_scale)``, so that a long lossy line, whose
+    cosh and sinh overflow beyond 710 Np, stays representable. ``log_scale`` has shape (..., nf)."""
+
+    matrix: np.ndarray
+    log_scale: np.ndarray
+
+
+@dataclass(frozen=True)
 class PathSolution:
     """Voltage, current and power at every node, dissipation in every element.
 
     Shapes: nodes (..., n + 1, nf), elements (..., n, nf); node 0 is the radio end.
+    ``db_below_radio`` is 10 log10(P_radio / P_node), computed in the log domain so that it
+    stays finite where a node's power underflows; ``state_v`` and ``state_i`` are each node's
+    V and I up to a real factor, for reflections and impedances on such paths.
     """
 
     voltage_v: np.ndarray
     current_a: np.ndarray
     power_w: np.ndarray
     dissipated_w: np.ndarray
+    db_below_radio: np.ndarray
+    state_v: np.ndarray  # each node's (V, I) divided by a power of two of its own size:
+    state_i: np.ndarray  # for reflections and impedances, which do not depend on scale
 
 
 def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSolution:
@@ -44,7 +59,7 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
 
     Parameters
     ----------
-    abcd_list : sequence of ndarray, each (..., nf, 2, 2)
+    abcd_list : sequence of ndarray, each (..., nf, 2, 2), or of ScaledAbcd
         Chain matrices from the radio to the antenna; leading axes broadcast.
     rho_load : array_like of complex, (..., nf)
         Reflection coefficient of the antenna against ``z_ref_load_ohm`` (so that an open,
@@ -69,30 +84,54 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     At the antenna V = 1 + rho, I = (1 - rho)/Z_ref; each element maps its output to its input,
     [V_in, I_in] = ABCD [V_out, I_out]. Net power P = Re(V I*) at every node; all phasors are then
     scaled by sqrt(P_radio / P_0). Element k dissipates P_k - P_(k+1), so the energy balance
-    P_radio = P_antenna + sum(dissipated) holds by construction to rounding.
+    P_radio = P_antenna + sum(dissipated) holds by construction to rounding. After each element
+    the state is divided by its size and the logarithm of that size is carried along, so a path
+    of thousands of dB neither overflows nor loses its loss figure (``db_below_radio``).
 
     References
     ----------
     Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
     """
     rho_load = np.asarray(rho_load, dtype=complex)
-    voltages, currents = [1 + rho_load], [(1 - rho_load) / z_ref_load_ohm]
+    v, i = 1 + rho_load, (1 - rho_load) / z_ref_load_ohm
+    log_scale, exponent = np.zeros(v.shape), np.zeros(v.shape, dtype=int)
+    voltages, currents, log_scales, exponents = [v], [i], [log_scale], [exponent]
     for abcd in reversed(abcd_list):
-        v, i = voltages[-1], currents[-1]
+        if isinstance(abcd, ScaledAbcd):
+            abcd, log_scale = abcd.matrix, log_scale + abcd.log_scale
         # the 2x2 product written out: numpy's matmul is slow on stacks of tiny matrices
-        voltages.append(abcd[..., 0, 0] * v + abcd[..., 0, 1] * i)
-        currents.append(abcd[..., 1, 0] * v + abcd[..., 1, 1] * i)
-    shape = np.broadcast_shapes(*(v.shape for v in voltages))
-    voltage = np.stack([np.broadcast_to(v, shape) for v in reversed(voltages)], -2)  # (..., n+1, nf)
-    current = np.stack([np.broadcast_to(i, shape) for i in reversed(currents)], -2)
+        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
+        # keep the state near unit size by a power of two (exact) and count the powers
+        _, shift = np.frexp(np.maximum(np.abs(v), np.abs(i) * z_ref_load_ohm))
+        factor = np.ldexp(1.0, -shift)
+        v, i, exponent = v * factor, i * factor, exponent + shift
+        voltages.append(v)
+        currents.append(i)
+        log_scales.append(log_scale)
+        exponents.append(exponent)
+    shape = np.broadcast_shapes(*(v.shape for v in voltages), *(s.shape for s in log_scales))
+
+    def nodes(values):
+        return np.stack([np.broadcast_to(x, shape) for x in reversed(values)], -2)  # (..., n+1, nf)
+
+    voltage, current, log_scale, exponent = nodes(voltages), nodes(currents), nodes(log_scales), nodes(exponents)
     power_raw = (voltage * current.conj()).real
     no_power = power_raw[..., 0, :] <= NO_POWER_FRACTION * np.abs(voltage[..., 0, :]) * np.abs(current[..., 0, :])
     if np.any(no_power):
         raise NoNetPowerError(np.any(no_power.reshape(-1, no_power.shape[-1]), axis=0))
-    scale = np.sqrt(radio_power_w / power_raw[..., :1, :])
-    voltage, current = voltage * scale, current * scale
+    # each node's size relative to the radio end: <= 0 toward the antenna on a lossy path
+    relative_log = log_scale - log_scale[..., :1, :]
+    relative_exponent = exponent - exponent[..., :1, :]
+    relative = relative_log + relative_exponent * np.log(2.0)
+    scale = np.ldexp(np.sqrt(radio_power_w / power_raw[..., :1, :]) * np.exp(relative_log), relative_exponent)
     power = power_raw * scale**2
-    return PathSolution(voltage, current, power, power[..., :-1, :] - power[..., 1:, :])
+    positive = power_raw > 0
+    db_below_radio = np.where(
+        positive,
+        10 * np.log10(power_raw[..., :1, :] / np.where(positive, power_raw, 1.0)) - 20 * np.log10(np.e) * relative,
+        np.inf)
+    return PathSolution(voltage * scale, current * scale, power, power[..., :-1, :] - power[..., 1:, :], db_below_radio,
+                        voltage, current)
 
 
 def input_impedance(abcd_list, rho_load, z_ref_load_ohm):
@@ -112,6 +151,8 @@ def input_impedance(abcd_list, rho_load, z_ref_load_ohm):
     rho_load = np.asarray(rho_load, dtype=complex)
     v, i = 1 + rho_load, (1 - rho_load) / z_ref_load_ohm
     for abcd in reversed(abcd_list):
+        if isinstance(abcd, ScaledAbcd):
+            abcd = abcd.matrix  # an overall factor does not change V/I
         v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
     return v / i
 
