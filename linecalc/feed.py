@@ -237,9 +237,14 @@ def _part(placement):
         mapping(doc, ctx, optional=("r", "l", "c", "inductor_q", "capacitor_q", "label"))
         if not any(key in doc for key in ("r", "l", "c")):
             raise ctx.error("give at least one of r, l, c (in series with each other)")
+        resistance = quantity(doc, "r", ctx, "ohm", positive=False, bare_unit="ohm") if "r" in doc else 0.0
+        if not resistance >= 0:  # a negative resistance would make power: the parts are passive
+            raise ctx.child(doc, "r").error(f"a resistance is zero or more ohm, got {doc['r']!r}")
+        if placement == "shunt" and resistance == 0 and "l" not in doc and "c" not in doc:
+            raise ctx.error("a shunt part of zero impedance (r: 0 alone) shorts the path; "
+                            "give l or c, or a resistance above zero")
         return LumpedPart(
-            _label(doc, ctx, placement, index), placement, z_ref_ohm,
-            resistance_ohm=quantity(doc, "r", ctx, "ohm", positive=False, bare_unit="ohm") if "r" in doc else 0.0,
+            _label(doc, ctx, placement, index), placement, z_ref_ohm, resistance_ohm=resistance,
             inductance_h=quantity(doc, "l", ctx, "H") if "l" in doc else 0.0,
             capacitance_f=quantity(doc, "c", ctx, "F") if "c" in doc else None,
             inductor_q=_q(doc, ctx, "inductor_q", INDUCTOR_Q), capacitor_q=_q(doc, ctx, "capacitor_q", CAPACITOR_Q))
