@@ -1,0 +1,356 @@
+"""Touchstone one-port files: read a measured sweep, write a computed one.
+
+Reading uses scikit-rf's Touchstone parser (imported inside `read_one_port` only, so that the
+plain budget never pays for its import). Before it, a light scan of the text finds what a bad
+file gets wrong and on which line, because the parser itself reports no line numbers. Writing
+is done by hand (a Touchstone 1.x ``# Hz S RI R 50`` file is a few lines of text), atomically.
+"""
+from __future__ import annotations
+
+import os
+import re
+import tempfile
+from pathlib import Path
+
+import numpy as np
+
+UNITS_HZ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
+PARAMETERS = ("s", "y", "z")
+FORMATS = ("ma", "db", "ri")
+# Touchstone 1.x names the port count in the extension (.s1p, and .y1p/.z1p by old custom).
+_EXTENSION = re.compile(r"\.[syzgh](\d+)p$", re.IGNORECASE)
+
+
+class TouchstoneError(ValueError):
+    """A Touchstone file that cannot be used: rendered ``FILE:LINE: message``.
+
+    ``line`` is None only when the file cannot be opened at all (missing, a folder, no
+    permission); the station loader then points at its own line that names the file.
+    """
+
+    def __init__(self, file, line, message):
+        self.file, self.line, self.message = str(file), line, message
+        super().__init__(f"{self.file}:{line}: {message}" if line is not None else f"{self.file}: {message}")
+
+
+class TouchstoneWriteError(ValueError):
+    """An output that must not be written: it exists (without ``force``), it is an input, or the
+    system refused. Bad usage, not a bug: the command line exits with status 2."""
+
+    def __init__(self, file, message):
+        self.file, self.message = str(file), message
+        super().__init__(f"{self.file}: {message}")
+
+
+def _read_text(path: Path) -> str:
+    if not path.exists():
+        raise TouchstoneError(path, None, "no such file")
+    if path.is_dir():
+        raise TouchstoneError(path, None, "is a folder, not a Touchstone file")
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise TouchstoneError(path, None, f"cannot be read: {exc.strerror}") from None
+    try:  # the same encodings scikit-rf tries
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        return data.decode("latin-1")
+
+
+def _scan(path: Path, text: str):
+    """Check the structure of a one-port Touchstone file line by line.
+
+    Returns the option line's number (or None) and the line numbers of the data rows. Raises
+    `TouchstoneError` at the first line that is wrong: an empty file, a bad option line, a
+    port count other than one, a row that is not three numbers, frequencies that do not
+    increase, a 2.x file whose declared frequency count or [End] is missing.
+    """
+    lines = text.split("\n")  # numbered as an editor numbers them (CR of CR-LF is stripped below)
+    if lines[-1] == "":
+        lines.pop()
+    if not any(line.partition("!")[0].strip() for line in lines):
+        raise TouchstoneError(path, 1, "the file is empty (no option line and no data)")
+    version2 = any(line.strip().lower().startswith("[version]") for line in lines)
+    extension = _EXTENSION.search(path.name)
+    if not version2:
+        if extension is None:
+            raise TouchstoneError(path, 1, "not a Touchstone one-port file: a 1.x file is named *.s1p, "
+                                           "a 2.x file begins with [Version] 2.0")
+        if int(extension.group(1)) != 1:
+            raise TouchstoneError(path, 1, f"a {extension.group(1)}-port file (by its name); a one-port "
+                                           "(.s1p) file is needed")
+    option_line, in_data, ended = None, not version2, False
+    declared, rows, previous = None, [], None
+    for number, raw in enumerate(lines, start=1):
+        line = raw.partition("!")[0].strip()
+        if not line:
+            continue
+        lower = line.lower()
+        if lower.startswith("#"):
+            if option_line is None:
+                option_line = number
+                _check_option_line(path, number, lower)
+            continue
+        if lower.startswith("["):
+            keyword, _, value = lower.partition("]")
+            if keyword == "[number of ports" and value.split() != ["1"]:
+                raise TouchstoneError(path, number, f"[Number of Ports] is {value.strip() or 'missing'}; "
+                                                    "a one-port file is needed")
+            if keyword == "[number of frequencies":
+                try:
+                    declared = int(value)
+                except ValueError:
+                    raise TouchstoneError(path, number, f"[Number of Frequencies] is not a whole number: "
+                                                        f"{value.strip()!r}") from None
+            in_data = keyword == "[network data" or (in_data and keyword not in ("[noise data", "[end"))
+            ended = ended or keyword == "[end"
+            continue
+        if not in_data:
+            continue  # 2.x: values of a keyword, such as [Reference], before [Network Data]
+        values = []
+        for token in line.split():
+            try:
+                value = float(token)
+            except ValueError:
+                raise TouchstoneError(path, number, f"not a number: {token!r}") from None
+            if not np.isfinite(value):
+                raise TouchstoneError(path, number, f"not a finite number: {token!r}")
+            values.append(value)
+        if len(values) > 3:
+            raise TouchstoneError(path, number, f"{len(values) - 1} values after the frequency where a one-port "
+                                                "row has 2: is this a file of more than one port?")
+        if len(values) < 3:
+            raise TouchstoneError(path, number, f"truncated row: {len(values)} number(s) where a one-port row has "
+                                                "3 (frequency and two values)")
+        if values[0] <= 0:
+            raise TouchstoneError(path, number, f"frequency must be above zero, got {values[0]:g}")
+        if previous is not None and values[0] <= previous[1]:
+            raise TouchstoneError(path, number, f"frequencies must increase: {values[0]:g} follows {previous[1]:g} "
+                                                f"(line {previous[0]})")
+        previous = (number, values[0])
+        rows.append(number)
+    last = len(lines)
+    if not rows:
+        raise TouchstoneError(path, last, "no data rows")
+    if version2 and declared is not None and declared != len(rows):
+        raise TouchstoneError(path, rows[-1], f"[Number of Frequencies] is {declared} but the file has "
+                                              f"{len(rows)} data rows (truncated?)")
+    if version2 and not ended:
+        raise TouchstoneError(path, last, "no [End] keyword: the file looks truncated")
+    return option_line, rows
+
+
+def _check_option_line(path, number, lower):
+    """The option line ``# <unit> <parameter> <format> R <n>``, fields in this order, each optional."""
+    tokens = lower[1:].split()
+    expected = (("frequency unit", UNITS_HZ), ("parameter", PARAMETERS), ("format", FORMATS))
+    for token, (what, allowed) in zip(tokens, expected):
+        if token not in allowed:
+            raise TouchstoneError(path, number, f"option line: {token!r} is not a {what} "
+                                                f"({', '.join(a.upper() for a in allowed)}) for a one-port file")
+    rest = tokens[3:]
+    if rest:
+        try:
+            resistance = float(rest[1]) if rest[0] == "r" and len(rest) == 2 else None
+        except ValueError:
+            resistance = None
+        if resistance is None or not resistance > 0 or not np.isfinite(resistance):
+            raise TouchstoneError(path, number, "option line: the reference must be 'R' and one positive "
+                                                f"resistance, got {' '.join(rest)!r}")
+
+
+def read_one_port(path):
+    """Read a one-port Touchstone file (1.x or 2.x) as impedance against frequency.
+
+    Parameters
+    ----------
+    path : str or Path
+        A Touchstone 1.x file named ``*.s1p`` (or ``*.z1p``, ``*.y1p``) or a 2.x file beginning
+        with ``[Version] 2.0``: S, Z or Y data; Hz, kHz, MHz or GHz; MA, DB or RI; any
+        reference resistance (option line ``R n``, or 2.x ``[Reference]``); comments after ``!``.
+
+    Returns
+    -------
+    frequency_hz : ndarray, shape (nf,)
+        Strictly increasing frequencies [Hz].
+    z_ohm : ndarray of complex, shape (nf,)
+        Impedance [ohm]: from S data Z = R (1 + S)/(1 - S), ``inf`` where S = 1 exactly (an
+        open); Z data as given; from Y data Z = 1/Y, ``inf`` where Y = 0.
+
+    Raises
+    ------
+    TouchstoneError
+        A missing, unreadable, empty, truncated or non-numeric file, a multi-port file, G or H
+        data, frequencies that do not increase, or scikit-rf not installed; it names the file
+        and the line (the line is None only for a file that cannot be opened).
+
+    Notes
+    -----
+    In a 1.x file Z and Y data are normalised to the reference resistance R: z = Z/R and
+    y = Y R (the normalised admittance Y/Y0, Y0 = 1/R); 2.x data are not normalised. The
+    reading of 1.x Y data as Y = y/R follows the definition of a normalised admittance; it is
+    done here, from the parser's raw values, because scikit-rf 2.2 multiplies 1.x Y data by R.
+
+    References
+    ----------
+    Touchstone File Format Specification, version 2.0 (IBIS Open Forum, 2009): option line,
+    keywords, version 1.0 compatibility rules (normalised Z and Y, from memory). Pozar,
+    Microwave Engineering, 4th ed., section 2.3 (Z from rho) and section 2.4 (normalised
+    admittance y = Y Z0).
+    """
+    path = Path(path)
+    text = _read_text(path)
+    option_line, rows = _scan(path, text)
+    where = option_line or rows[0]
+    try:
+        from skrf.io.touchstone import Touchstone
+    except ImportError:
+        raise TouchstoneError(path, where, "reading Touchstone files needs scikit-rf "
+                                           "(pip install scikit-rf)") from None
+    try:
+        parsed = Touchstone(str(path))
+    except Exception as exc:  # noqa: BLE001 - whatever the parser raises is a bad file, named here
+        raise TouchstoneError(path, where, f"scikit-rf cannot read it: {exc}") from None
+    if parsed.rank != 1 or len(parsed.f) != len(rows):
+        raise TouchstoneError(path, rows[0], f"read as {parsed.rank} port(s) and {len(parsed.f)} frequencies "
+                                             f"where the text has one port and {len(rows)} rows")
+    frequency_hz = np.asarray(parsed.f, dtype=float)
+    raw = np.asarray(parsed.s_flat, dtype=complex)[:, 0]  # the file's values, format decoded, not converted
+    resistance = np.asarray(parsed.z0, dtype=complex)[:, 0]
+    if np.any(resistance.imag != 0) or np.any(resistance.real <= 0):
+        raise TouchstoneError(path, where, "the reference resistance must be real and positive")
+    resistance = resistance.real
+    version1 = parsed.version == "1.0"
+    parameter = parsed.parameter.lower()
+    if parameter == "s":
+        z_ohm = _divide(resistance * (1 + raw), 1 - raw)
+    elif parameter == "z":
+        z_ohm = raw * resistance if version1 else raw
+    else:
+        admittance = raw / resistance if version1 else raw
+        z_ohm = _divide(np.ones_like(admittance), admittance)
+    return frequency_hz, z_ohm
+
+
+def _divide(numerator, denominator):
+    """numerator / denominator; complex infinity where the denominator is zero."""
+    zero = denominator == 0
+    return np.where(zero, complex(np.inf, 0.0), numerator / np.where(zero, 1.0, denominator))
+
+
+def _current_umask():
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return a.exists() and b.exists() and os.path.samefile(a, b)
+    except OSError:
+        return False
+
+
+def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, force=False, protected=()):
+    """Write an impedance sweep as a Touchstone 1.x one-port file of S data in RI form.
+
+    Parameters
+    ----------
+    path : str or Path
+        The output file (conventionally ``*.s1p``).
+    frequency_hz : array_like, shape (nf,)
+        Strictly increasing, positive frequencies [Hz].
+    z_ohm : array_like of complex, shape (nf,)
+        Impedance [ohm]; ``inf`` for an open (written as S = 1).
+    z_ref_ohm : float
+        Reference resistance R of the file [ohm].
+    comment : str
+        Text for the header, one ``!`` line per line of text (non-ASCII characters become '?',
+        since Touchstone files are ASCII).
+    force : bool
+        Replace an existing file; without it an existing output is refused.
+    protected : iterable of str or Path
+        Files that must never be replaced, even with ``force`` (the inputs of the run).
+
+    Returns
+    -------
+    Path
+        The file written.
+
+    Raises
+    ------
+    TouchstoneWriteError
+        The output exists (without ``force``), is one of ``protected``, or cannot be written.
+    ValueError
+        Arrays of the wrong shape, frequencies not increasing, a NaN impedance, an impedance of
+        exactly -R (infinite S), or a reference that is not a positive number.
+
+    Notes
+    -----
+    The text goes to a temporary file in the output's folder, is flushed to disk, then renamed
+    over the output (``os.replace``, atomic on one file system): a reader never sees half a
+    file. Without ``force`` the rename is a hard link, which fails if the output has appeared
+    in the meantime. Values are written with 17 significant digits, so they read back exactly.
+
+    References
+    ----------
+    Touchstone File Format Specification, version 2.0 (IBIS Open Forum, 2009), option line and
+    version 1.0 data lines. Pozar, Microwave Engineering, 4th ed., section 2.3 (S = rho).
+    """
+    path = Path(path)
+    f = np.asarray(frequency_hz, dtype=float)
+    z = np.asarray(z_ohm, dtype=complex)
+    if f.ndim != 1 or z.shape != f.shape or f.size == 0:
+        raise ValueError("frequency_hz and z_ohm must be one-dimensional arrays of the same, non-zero length")
+    if not np.all(np.isfinite(f)) or np.any(f <= 0) or np.any(np.diff(f) <= 0):
+        raise ValueError("frequencies must be finite, positive and strictly increasing")
+    if not (np.isfinite(z_ref_ohm) and z_ref_ohm > 0):
+        raise ValueError(f"the reference resistance must be a positive number, got {z_ref_ohm!r}")
+    if np.any(np.isnan(z)):
+        raise ValueError("an impedance is NaN")
+    open_circuit = np.isinf(z)
+    finite = np.where(open_circuit, 0.0, z)
+    if np.any(finite + z_ref_ohm == 0):
+        raise ValueError(f"an impedance equals -{z_ref_ohm:g} ohm: its reflection coefficient is infinite")
+    s = np.where(open_circuit, 1.0 + 0j, (finite - z_ref_ohm) / (finite + z_ref_ohm))
+
+    for other in protected:
+        other = Path(other)
+        if _same_file(path, other) or path.resolve() == other.resolve():
+            raise TouchstoneWriteError(path, f"is an input of this run ({other}); it is never overwritten")
+    if path.exists() and not force:
+        raise TouchstoneWriteError(path, "exists; use --force to replace it")
+
+    header = [f"! {line}".rstrip() for line in comment.encode("ascii", "replace").decode("ascii").splitlines()]
+    header.append(f"# Hz S RI R {z_ref_ohm:.17g}")
+    rows = [f"{fi:.17g} {si.real:.17g} {si.imag:.17g}" for fi, si in zip(f, s)]
+    text = "\n".join(header + rows) + "\n"
+
+    folder = path.parent if str(path.parent) else Path(".")
+    try:
+        handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    except OSError as exc:
+        raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None
+    try:
+        with os.fdopen(handle, "w", encoding="ascii", newline="\n") as out:
+            out.write(text)
+            out.flush()
+            os.fsync(out.fileno())
+        os.chmod(temporary, 0o666 & ~_current_umask())
+        if force:
+            os.replace(temporary, path)
+        else:
+            try:
+                os.link(temporary, path)  # fails if the output appeared meanwhile
+            except FileExistsError:
+                raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
+            except OSError:  # a file system without hard links: check, then rename
+                if path.exists():
+                    raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
+                os.replace(temporary, path)
+    except OSError as exc:
+        raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None
+    finally:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+    return path
