@@ -9,6 +9,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from . import safety
 from .loads import ImpedanceTable, SwrTable, rho_from_impedance
 from .solver import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
@@ -34,6 +35,10 @@ class Station:
     antenna: ImpedanceTable | SwrTable
     feed: tuple = ()
     region: int = 2
+    mode: str = "carrier"
+    duty_factor: float = 1.0
+    transmit_fraction: float = 1.0
+    antenna_gain_dbi: float = 2.15
     source_file: str = "<station>"
     key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
 
@@ -86,6 +91,11 @@ class BudgetResult:
     total_loss_db_range: np.ndarray | None = None
     warnings: tuple[str, ...] = ()
     solution: PathSolution | None = field(default=None, repr=False)
+    exposure: dict = field(default_factory=dict)  # per-row arrays: average power, distances, limits
+    mode: str = "carrier"
+    duty_factor: float = 1.0
+    transmit_fraction: float = 1.0
+    antenna_gain_dbi: float = 2.15
 
 
 def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
@@ -240,12 +250,21 @@ def solve_budget(station: Station) -> BudgetResult:
     def phase_mean(values):
         return _phase_mean(values, swr_only)
 
-    elements = []
+    elements, stress_warnings = [], []
     for k, element in enumerate(station.feed):
         readings = {}
         if hasattr(element, "readings"):
             readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean,
                                         designs.get(k))
+        if element.kind == "line":
+            stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only)
+        elif k in designs:
+            stress, warned = safety.tuner_stress(designs[k], solution.voltage_v[..., k, :], solution.current_a[..., k, :],
+                                                 element, station.labels, swr_only)
+        else:
+            stress, warned = {}, []
+        readings = {**readings, **stress}
+        stress_warnings += warned
         elements.append(ElementBudget(
             kind=element.kind, label=element.label,
             loss_db=db_below_radio[k + 1] - db_below_radio[k],
@@ -278,8 +297,13 @@ def solve_budget(station: Station) -> BudgetResult:
         elements=tuple(elements), total_loss_db_range=loss_range,
         warnings=tuple(_range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
                        + _tuner_warnings(station.feed, designs, station.labels, swr_in)
-                       + _element_notices(station.feed, f, station.labels)),
+                       + _element_notices(station.feed, f, station.labels) + stress_warnings
+                       + safety.gain_warnings(station.antenna_gain_dbi)),
         solution=solution,
+        exposure=safety.exposure(f, power_antenna, station.duty_factor, station.transmit_fraction,
+                                 station.antenna_gain_dbi),
+        mode=station.mode, duty_factor=station.duty_factor, transmit_fraction=station.transmit_fraction,
+        antenna_gain_dbi=station.antenna_gain_dbi,
     )
 
 

@@ -435,6 +435,8 @@ class Tuner:
     z_ref_ohm: float
     max_swr: float = BUILTIN_MAX_SWR
     output_balanced: bool = False
+    max_capacitor_voltage_v: float | None = None  # peak (crest) rating of every capacitor
+    max_inductor_current_a: float | None = None  # RMS rating of every inductor
     kind: str = "tuner"
 
     def design(self, frequency_hz, z_load_ohm) -> TunerSolution:

@@ -14,7 +14,8 @@ Defaults, all documented in the README where the key is:
 - tuner: ``network`` T; ``capacitance`` 10 pF to 500 pF and ``inductance`` 0.05 uH to 30 uH for
   every capacitor and inductor (common practice for a wide-range manual tuner, from memory);
   ``inductor_q`` 100, ``capacitor_q`` 1000; ``max_swr`` 3 for ``network: builtin`` (common
-  practice: built-in tuners match up to about 3:1); ``output`` unbalanced.
+  practice: built-in tuners match up to about 3:1); ``output`` unbalanced; optional ratings
+  ``capacitor_voltage_rating`` (peak volts) and ``inductor_current_rating`` (RMS amperes).
 """
 from __future__ import annotations
 
@@ -277,7 +278,7 @@ def _range(doc, ctx, key, unit, default):
 def _tuner(doc, ctx, index, z_ref_ohm):
     doc = doc or {}
     mapping(doc, ctx, optional=("network", "capacitance", "inductance", "inductor_q", "capacitor_q", "max_swr",
-                                "output", "label"))
+                                "output", "capacitor_voltage_rating", "inductor_current_rating", "label"))
     network = doc.get("network", "T")
     if network not in ("L", "T", "builtin"):
         raise ctx.child(doc, "network").error(f"network is L, T or builtin, got {network!r}")
@@ -288,8 +289,10 @@ def _tuner(doc, ctx, index, z_ref_ohm):
     parts = TunerParts(c_min, c_max, l_min, l_max, _q(doc, ctx, "inductor_q", INDUCTOR_Q),
                        _q(doc, ctx, "capacitor_q", CAPACITOR_Q))
     max_swr = number(doc, "max_swr", ctx, low=1, low_open=False) if "max_swr" in doc else TUNER_MAX_SWR
+    voltage_rating = quantity(doc, "capacitor_voltage_rating", ctx, "V") if "capacitor_voltage_rating" in doc else None
+    current_rating = quantity(doc, "inductor_current_rating", ctx, "A") if "inductor_current_rating" in doc else None
     return Tuner(_label(doc, ctx, "tuner", index), network, parts, z_ref_ohm, max_swr,
-                 _side(doc, ctx, "output", "unbalanced"))
+                 _side(doc, ctx, "output", "unbalanced"), voltage_rating, current_rating)
 
 
 # Element builders by key in the feed list; each takes (settings, context, index, z_ref_ohm).

@@ -13,10 +13,18 @@ import numpy as np
 from . import bands as band_table
 from .budget import Station
 from .compare import CompareSpec
+from .exposure import MODE_DUTY_FACTORS, duty_factor
 from .feed import build_feed, read_cable
 from .loads import ImpedanceTable, SwrTable, outside_table
-from .schema import (Context, StationError, frequency_table, load_yaml_text, mapping, quantity, string)
+from .schema import Context, StationError, frequency_table, load_yaml_text, mapping, number, quantity, string
 from .units import UnitError, parse_impedance
+
+
+# Defaults of the radio and antenna keys (documented in the README where the keys are):
+# a continuous carrier, always transmitting (the cautious exposure figure), a half-wave dipole.
+MODE = "carrier"
+TRANSMIT_FRACTION = 1.0
+ANTENNA_GAIN_DBI = 2.15
 
 
 def _read_impedance(value, ctx):
@@ -37,15 +45,49 @@ def _read_swr(value, ctx):
     return float(value)
 
 
+def _gain_dbi(doc, ctx):
+    """Antenna gain over isotropic: ``2.15 dBi`` or a bare number of dBi; default `ANTENNA_GAIN_DBI`."""
+    if "gain" not in doc:
+        return ANTENNA_GAIN_DBI
+    value = doc["gain"]
+    where = ctx.child(doc, "gain")
+    text = value.strip() if isinstance(value, str) else value
+    if isinstance(text, str) and text.lower().endswith("dbi"):
+        text = text[:-3].strip()
+    try:
+        gain = float(text)
+    except (TypeError, ValueError):
+        raise where.error(f"a gain is a number of dBi such as 2.15 dBi, got {value!r}") from None
+    if isinstance(value, bool) or not math.isfinite(gain):
+        raise where.error(f"a gain is a finite number of dBi, got {value!r}")
+    return gain
+
+
 def _antenna(doc, ctx):
-    mapping(doc, ctx, optional=("impedance", "swr"))
+    mapping(doc, ctx, optional=("impedance", "swr", "gain"))
     if ("impedance" in doc) == ("swr" in doc):
         raise ctx.error("give the antenna as exactly one of impedance: {...} or swr: {...}")
+    gain_dbi = _gain_dbi(doc, ctx)
     if "impedance" in doc:
         f, z = frequency_table(doc["impedance"], ctx.child(doc, "impedance"), _read_impedance)
-        return ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance")
+        return ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance"), gain_dbi
     f, swr = frequency_table(doc["swr"], ctx.child(doc, "swr"), _read_swr)
-    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr")
+    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr"), gain_dbi
+
+
+def _mode(radio, ctx):
+    """The radio's mode name and duty factor (FCC OET Bulletin 65 Supplement B); default `MODE`."""
+    if "mode" not in radio:
+        return MODE, duty_factor(MODE)
+    value = radio["mode"]
+    where = ctx.child(radio, "mode")
+    if isinstance(value, bool) or not isinstance(value, (str, int, float)):
+        raise where.error(f"mode is a name ({', '.join(MODE_DUTY_FACTORS)}) or a duty factor in (0, 1]")
+    try:
+        duty = duty_factor(value)
+    except ValueError as exc:
+        raise where.error(str(exc)) from None
+    return (value.strip().lower() if isinstance(value, str) else f"duty factor {value:g}"), duty
 
 
 def _rows(doc, ctx):
@@ -121,11 +163,14 @@ def _station_and_compare(doc, file):
             optional=("region", "bands", "frequencies", "compare"))
     name = string(doc, "name", ctx)
     radio_ctx = ctx.child(doc, "radio")
-    radio = mapping(doc["radio"], radio_ctx, required=("power",), optional=("impedance",))
+    radio = mapping(doc["radio"], radio_ctx, required=("power",), optional=("impedance", "mode", "transmit_fraction"))
     power_w = quantity(radio, "power", radio_ctx, "W")
     z_ref = quantity(radio, "impedance", radio_ctx, "ohm", bare_unit="ohm") if "impedance" in radio else 50.0
+    mode, duty = _mode(radio, radio_ctx)
+    transmit_fraction = (number(radio, "transmit_fraction", radio_ctx, low=0, high=1) if "transmit_fraction" in radio
+                         else TRANSMIT_FRACTION)
     labels, frequency_hz = _rows(doc, ctx)
-    antenna, table_ctx = _antenna(doc["antenna"], ctx.child(doc, "antenna"))
+    antenna, table_ctx, gain_dbi = _antenna(doc["antenna"], ctx.child(doc, "antenna"))
     outside = outside_table(antenna.frequency_hz, frequency_hz)
     if outside.any():
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
@@ -135,7 +180,9 @@ def _station_and_compare(doc, file):
     region = doc.get("region", 2)
     spec = _compare_spec(doc["compare"], ctx.child(doc, "compare")) if "compare" in doc else None
     station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
-                      frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, source_file=str(file),
+                      frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, mode=mode,
+                      duty_factor=duty, transmit_fraction=transmit_fraction, antenna_gain_dbi=gain_dbi,
+                      source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
                                  "compare": ctx.child(doc, "compare").line})
     return station, spec
