@@ -25,9 +25,15 @@ def build_parser() -> argparse.ArgumentParser:
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
     budget = commands.add_parser("budget", help="SWR at both ends, losses and watts at the antenna, per band")
-    budget.add_argument("station", help="station file (YAML)")
+    budget.add_argument("station", nargs="+",
+                        help="station files (YAML) or folders of them (*.yaml); one result set each")
     budget.add_argument("--format", choices=("table", "json", "csv"), default="table",
                         help="output format (default: table)")
+
+    safety = commands.add_parser("safety", help="voltages on lines and tuner parts at PEP, RF-exposure distances, "
+                                 "with the cautions")
+    safety.add_argument("station", help="station file (YAML)")
+    safety.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
     compare = commands.add_parser("compare", help="rank alternatives band by band: other feedlines, tuner "
                                   "positions, other lengths of a line")
@@ -59,16 +65,47 @@ def _solve(station):
         raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
 
 
-def _run_budget(args) -> int:
-    from . import report
-    from .station import load_station
+def _station_paths(arguments):
+    """The files named, with each folder replaced by its *.yaml files in name order."""
+    from pathlib import Path
 
-    result = _solve(load_station(args.station))
-    render = {"table": report.budget_table, "json": report.budget_json, "csv": report.budget_csv}[args.format]
-    sys.stdout.write(render(result))
-    for warning in result.warnings:
-        print(f"warning: {warning}", file=sys.stderr)
-    return EXIT_OK
+    paths = []
+    for argument in arguments:
+        path = Path(argument)
+        paths += sorted(path.glob("*.yaml")) if path.is_dir() else [path]
+    return paths
+
+
+def _run_budget(args) -> int:
+    """One station: its result, or its error. Several: every result that can be had, each error on
+    stderr, and exit status 2 if any station failed."""
+    from . import report
+    from .station import StationError, load_station
+
+    paths = _station_paths(args.station)
+    if not paths:
+        raise OptionError(f"no station files (*.yaml) in {', '.join(args.station)}")
+    if len(paths) == 1:
+        results = [_solve(load_station(paths[0]))]
+    else:
+        results, failed = [], False
+        for path in paths:
+            try:
+                results.append(_solve(load_station(path)))
+            except StationError as exc:
+                print(str(exc), file=sys.stderr)
+                failed = True
+    if args.format == "json":
+        documents = [report.budget_document(r) for r in results]
+        sys.stdout.write(report.to_json(documents[0] if len(paths) == 1 else documents))
+    else:
+        render = {"table": report.budget_table, "csv": report.budget_csv}[args.format]
+        sys.stdout.write("\n".join(render(r) for r in results))
+    for result in results:
+        for warning in result.warnings:
+            prefix = f"{result.station}: " if len(paths) > 1 else ""
+            print(f"warning: {prefix}{warning}", file=sys.stderr)
+    return EXIT_BAD_INPUT if len(paths) > 1 and failed else EXIT_OK
 
 
 class OptionError(ValueError):
@@ -126,6 +163,20 @@ def _run_compare(args) -> int:
     return EXIT_OK
 
 
+def _run_safety(args) -> int:
+    from . import report
+    from .station import load_station
+
+    result = _solve(load_station(args.station))
+    if args.format == "json":
+        sys.stdout.write(report.budget_json(result))
+    else:
+        sys.stdout.write(report.safety_table(result))
+    for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+    return EXIT_OK
+
+
 def _run_cables(args) -> int:
     import json
 
@@ -152,7 +203,8 @@ def main(argv=None) -> int:
     from .station import StationError
 
     try:
-        return {"budget": _run_budget, "compare": _run_compare, "cables": _run_cables}[args.command](args)
+        return {"budget": _run_budget, "safety": _run_safety, "compare": _run_compare,
+                "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT

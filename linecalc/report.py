@@ -10,6 +10,7 @@ import numpy as np
 from tabulate import tabulate
 
 from .budget import BudgetResult
+from .exposure import CAUTIONS
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
                  "radio-end SWR are averages over every phase, and the loss range shows least and most.")
@@ -62,18 +63,28 @@ def budget_document(result: BudgetResult) -> dict:
         }
         if result.total_loss_db_range is not None:
             row["total_loss_db_range"] = [float(v) for v in result.total_loss_db_range[i]]
+        if result.exposure:
+            row["exposure"] = {key: _finite_or_none(values[i]) for key, values in result.exposure.items()}
         rows.append(row)
     return {
         "station": result.station,
         "reference_impedance_ohm": float(result.reference_impedance_ohm),
         "radio_power_w": float(result.radio_power_w),
+        "mode": result.mode, "duty_factor": result.duty_factor, "transmit_fraction": result.transmit_fraction,
+        "antenna_gain_dbi": result.antenna_gain_dbi,
         "rows": rows,
         "warnings": list(result.warnings),
+        "cautions": list(CAUTIONS),
     }
 
 
+def to_json(document) -> str:
+    """JSON text of a document built by this module (no NaN or infinity: those are null already)."""
+    return json.dumps(document, indent=2, allow_nan=False) + "\n"
+
+
 def budget_json(result: BudgetResult) -> str:
-    return json.dumps(budget_document(result), indent=2, allow_nan=False) + "\n"
+    return to_json(budget_document(result))
 
 
 def _swr_text(swr):
@@ -140,6 +151,56 @@ def budget_table(result: BudgetResult) -> str:
                   tabulate(rows, headers=["row", "match", "arrangement", "settings"], disable_numparse=True)]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE]
+    lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
+    return "\n".join(lines) + "\n"
+
+
+def _distance(value, near_field_m):
+    """A distance [m], starred where it falls inside the reactive near field."""
+    if not math.isfinite(value):
+        return "n/a"
+    return f"{value:.1f}{' *' if value < near_field_m else ''}"
+
+
+def safety_table(result: BudgetResult) -> str:
+    """Voltage and current maxima on each line and tuner part at PEP, exposure distances per row,
+    and the cautions."""
+    lines = [f"{result.station}: {result.radio_power_w:g} W PEP from the radio, mode {result.mode} "
+             f"(duty factor {result.duty_factor:g}), transmitting {100 * result.transmit_fraction:g} % of the time, "
+             f"antenna gain {result.antenna_gain_dbi:g} dBi", ""]
+    for e in result.elements:
+        if e.kind == "line":
+            body = [[label, f"{e.readings['voltage_max_rms_v'][i]:.0f}", f"{e.readings['voltage_max_peak_v'][i]:.0f}",
+                     f"{e.readings['voltage_max_at_m'][i]:.1f}", f"{e.readings['current_max_rms_a'][i]:.2f}",
+                     f"{e.readings['current_max_at_m'][i]:.1f}",
+                     f"{e.readings['voltage_margin'][i]:.1f}" if "voltage_margin" in e.readings else "no rating"]
+                    for i, label in enumerate(result.labels)]
+            lines += [f"Line {e.label} at PEP (positions from its radio end):",
+                      tabulate(body, headers=["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m",
+                                              "rating / V max"], disable_numparse=True, stralign="right"), ""]
+        elif e.kind == "tuner":
+            parts = sorted({key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings if key.endswith("_voltage_peak_v")})
+            body = [[label] + [f"{e.readings[p + '_voltage_peak_v'][i]:.0f} V / {e.readings[p + '_current_rms_a'][i]:.2f} A"
+                               for p in parts] for i, label in enumerate(result.labels)]
+            lines += [f"Tuner {e.label} parts at PEP (peak volts across / RMS amperes through):",
+                      tabulate(body, headers=["row", *(p.replace("_", " ") for p in parts)], disable_numparse=True), ""]
+    x = result.exposure
+    if x:
+        missing = [math.nan] * len(result.labels)
+        near = x.get("near_field_m", missing)
+        body = [[label, f"{x['power_average_w'][i]:.1f}", f"{x.get('eirp_w', missing)[i]:.1f}",
+                 *(_distance(x.get(key, missing)[i], near[i])
+                   for key in ("fcc_uncontrolled_m", "fcc_controlled_m", "icnirp_general_public_m")),
+                 _distance(near[i], 0.0)]
+                for i, label in enumerate(result.labels)]
+        lines += ["RF exposure: least distance from the antenna that meets the limits (far-field estimate with "
+                  "ground reflection, FCC OET Bulletin 65 section 2):",
+                  tabulate(body, headers=["row", "avg W at antenna", "avg EIRP W", "FCC general public m",
+                                          "FCC occupational m", "ICNIRP 2020 public m", "near field within m"],
+                           disable_numparse=True, stralign="right"),
+                  "* inside the reactive near field (about a sixth of a wavelength), where the far-field formula "
+                  "does not hold: indicative only", ""]
+    lines += ["Cautions:", *(f"- {text}" for text in CAUTIONS)]
     return "\n".join(lines) + "\n"
 
 
