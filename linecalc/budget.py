@@ -10,7 +10,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from . import safety
-from .loads import ImpedanceTable, SwrTable, rho_from_impedance
+from . import deembed
+from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
 from .solver import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
@@ -32,7 +33,7 @@ class Station:
     reference_impedance_ohm: float
     labels: tuple[str, ...]
     frequency_hz: np.ndarray
-    antenna: ImpedanceTable | SwrTable
+    antenna: ImpedanceTable | SwrTable | MeasuredAntenna
     feed: tuple = ()
     region: int = 2
     mode: str = "carrier"
@@ -92,10 +93,88 @@ class BudgetResult:
     warnings: tuple[str, ...] = ()
     solution: PathSolution | None = field(default=None, repr=False)
     exposure: dict = field(default_factory=dict)  # per-row arrays: average power, distances, limits
+    measured: dict = field(default_factory=dict)  # a measured antenna: SWR range at the antenna, sensitivity
     mode: str = "carrier"
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
     antenna_gain_dbi: float = 2.15
+
+
+# Above this multiplier a reflection error at the measuring point grows too much on its way to
+# the antenna: the recovered antenna SWR is flagged as uncertain.
+SENSITIVITY_WARNING = 3.0
+# The reflection error of a good amateur instrument, for the uncertainty figure in that warning
+# (common practice: |dG| of about 0.01 to 0.03 for analysers after calibration).
+INSTRUMENT_RHO_ERROR = 0.02
+
+
+def _measurement_path(station, frequency_hz):
+    """Chain matrices from the measuring point to the antenna; a tuner there is refused."""
+    path = station.feed[station.antenna.node:]
+    for element in path:
+        if hasattr(element, "design"):
+            raise BudgetError(f"tuner {element.label} sits between the measuring point and the antenna: its "
+                              "setting depends on the antenna, so the measurement cannot be moved through it",
+                              "antenna")
+    return [element.abcd(frequency_hz) for element in path]
+
+
+def _feeding_z0(station, frequency_hz):
+    """The characteristic impedance that the antenna's SWR is taken against: that of the element
+    feeding the antenna, or the reference impedance with no feed."""
+    if station.feed:
+        return station.feed[-1].port_z0_ohm(frequency_hz)[1]
+    return np.full(np.shape(frequency_hz), complex(station.reference_impedance_ohm))
+
+
+def recover_feedpoint(station: Station) -> deembed.DeembeddedSweep:
+    """A measured impedance sweep moved from its measuring point to the antenna, at its own frequencies."""
+    measured = station.antenna.table
+    f = measured.frequency_hz
+    return deembed.deembed_sweep(_measurement_path(station, f), measured.impedance_ohm, station.reference_impedance_ohm,
+                                 _feeding_z0(station, f))
+
+
+def _measured_antenna(station, frequency_hz):
+    """Turn a measured antenna into a feedpoint load: an ImpedanceTable, or for an SWR reading the
+    antenna reflections of every phase of the reading (phases, nf) against the reference.
+
+    Returns (load, per-row facts for the report, warnings).
+    """
+    measured, z_ref, labels = station.antenna, station.reference_impedance_ohm, station.labels
+    warnings = []
+    if isinstance(measured.table, ImpedanceTable):
+        sweep = recover_feedpoint(station)
+        if np.any(sweep.active):
+            where = measured.table.frequency_hz[sweep.active] / 1e6
+            warnings.append(f"the feedpoint recovered from {measured.source} comes out active (|rho| > 1) at "
+                            f"{', '.join(f'{x:g}' for x in where[:8])}{' ...' if where.size > 8 else ''} MHz: the "
+                            "described path does not match the measurement there")
+        load = ImpedanceTable(measured.table.frequency_hz, sweep.z_antenna_ohm)
+        rho_measured = rho_from_impedance(measured.table.impedance_at(frequency_hz), z_ref)
+        sensitivity = deembed.sensitivity_multiplier(_measurement_path(station, frequency_hz), rho_measured, z_ref,
+                                                     _feeding_z0(station, frequency_hz))
+        facts = {"sensitivity": sensitivity}
+    else:
+        path = _measurement_path(station, frequency_hz)
+        reading = measured.table.rho_magnitude_at(frequency_hz)
+        against_line = deembed.antenna_range_from_reading(path, reading, z_ref, _feeding_z0(station, frequency_hz))
+        if np.any(against_line.undetermined):
+            rows = ", ".join(label for label, u in zip(labels, against_line.undetermined) if u)
+            raise BudgetError(f"the SWR read at {measured.source} cannot pin the antenna down on {rows}: the path "
+                              "between them loses so much that even an open or a short at the antenna would read "
+                              "as well; measure closer to the antenna", "antenna")
+        load = deembed.antenna_range_from_reading(path, reading, z_ref, phase_samples=PHASE_SAMPLES).rho
+        sensitivity = against_line.sensitivity_max
+        facts = {"swr_antenna_least": against_line.swr_min, "swr_antenna_most": against_line.swr_max,
+                 "sensitivity": sensitivity}
+    uncertain = sensitivity > SENSITIVITY_WARNING
+    if np.any(uncertain):
+        rows = ", ".join(f"{label} (x{m:.1f}: a reflection error of {INSTRUMENT_RHO_ERROR} becomes "
+                         f"{INSTRUMENT_RHO_ERROR * m:.2f})" for label, m, u in zip(labels, sensitivity, uncertain) if u)
+        warnings.append(f"the antenna SWR recovered from {measured.source} is uncertain on {rows}: the path's loss "
+                        "multiplies any error of the measurement")
+    return load, facts, warnings
 
 
 def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
@@ -230,9 +309,15 @@ def solve_budget(station: Station) -> BudgetResult:
     """
     f = np.asarray(station.frequency_hz, dtype=float)
     z_ref = station.reference_impedance_ohm
-    swr_only = isinstance(station.antenna, SwrTable)
+    swr_only = isinstance(station.antenna, SwrTable)  # the phase of the antenna is unknown
 
-    rho_antenna = _antenna_rho(station.antenna, f, z_ref)
+    measured_facts, measured_warnings = {}, []
+    if isinstance(station.antenna, MeasuredAntenna):
+        load, measured_facts, measured_warnings = _measured_antenna(station, f)
+        swr_only = isinstance(station.antenna.table, SwrTable)
+        rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
+    else:
+        rho_antenna = _antenna_rho(station.antenna, f, z_ref)
     abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref)
     try:
         solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
@@ -298,7 +383,8 @@ def solve_budget(station: Station) -> BudgetResult:
         warnings=tuple(_range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
                        + _tuner_warnings(station.feed, designs, station.labels, swr_in)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings
-                       + safety.gain_warnings(station.antenna_gain_dbi)),
+                       + safety.gain_warnings(station.antenna_gain_dbi) + measured_warnings),
+        measured=measured_facts,
         solution=solution,
         exposure=safety.exposure(f, power_antenna, station.duty_factor, station.transmit_fraction,
                                  station.antenna_gain_dbi),

@@ -35,6 +35,14 @@ def build_parser() -> argparse.ArgumentParser:
     safety.add_argument("station", help="station file (YAML)")
     safety.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
+    feedpoint = commands.add_parser("feedpoint", help="move a measured sweep from the shack (or a meter) to the "
+                                    "antenna feedpoint: impedance and SWR across the sweep")
+    feedpoint.add_argument("station", help="station file whose antenna is a touchstone: sweep with measured_at:")
+    feedpoint.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                           help="output format (default: table)")
+    feedpoint.add_argument("--output", metavar="FILE.s1p", help="also write the feedpoint sweep as a Touchstone file")
+    feedpoint.add_argument("--force", action="store_true", help="overwrite an existing --output file")
+
     compare = commands.add_parser("compare", help="rank alternatives band by band: other feedlines, tuner "
                                   "positions, other lengths of a line")
     compare.add_argument("station", help="station file (YAML); its compare: key may list the alternatives")
@@ -177,6 +185,53 @@ def _run_safety(args) -> int:
     return EXIT_OK
 
 
+def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
+    """Write a Touchstone one-port atomically; never over an input, over an output only with --force."""
+    from .touchstone import TouchstoneWriteError, write_one_port
+
+    try:
+        write_one_port(path, frequency_hz, z_ohm, z_ref_ohm, comment, force=force, protected=inputs)
+    except TouchstoneWriteError as exc:
+        raise OptionError(f"--output: {exc}") from None
+
+
+def _run_feedpoint(args) -> int:
+    from pathlib import Path
+
+    from . import report
+    from .budget import BudgetError, recover_feedpoint
+    from .loads import ImpedanceTable, MeasuredAntenna
+    from .station import StationError, load_station
+
+    station = load_station(args.station)
+    antenna = station.antenna
+    if not (isinstance(antenna, MeasuredAntenna) and isinstance(antenna.table, ImpedanceTable)):
+        raise StationError(station.source_file, station.key_lines.get("antenna", 1),
+                           "feedpoint needs an antenna measured away from the feedpoint: touchstone: FILE (or "
+                           "impedance: {...}) with measured_at: radio or a meter label", "antenna")
+    try:
+        sweep = recover_feedpoint(station)
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+    f = antenna.table.frequency_hz
+    render = {"table": report.feedpoint_table, "json": report.feedpoint_json, "csv": report.feedpoint_csv}[args.format]
+    sys.stdout.write(render(station.name, antenna.source, f, sweep))
+    if args.output:
+        inputs = [Path(args.station)] + ([Path(args.station).parent / name for name in _touchstone_names(antenna)])
+        _write_s1p(args.output, f, sweep.z_antenna_ohm, station.reference_impedance_ohm,
+                   f"feedpoint of {station.name}, recovered by linecalc from {antenna.source}", args.force, inputs)
+    if sweep.active.any():
+        print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(sweep.active.sum())} points: the "
+              "described path does not match the measurement there", file=sys.stderr)
+    return EXIT_OK
+
+
+def _touchstone_names(antenna):
+    """The Touchstone file a measured antenna came from, as named in the station file."""
+    source = antenna.source
+    return [source.removeprefix("the sweep ")] if source.startswith("the sweep ") else []
+
+
 def _run_cables(args) -> int:
     import json
 
@@ -203,8 +258,8 @@ def main(argv=None) -> int:
     from .station import StationError
 
     try:
-        return {"budget": _run_budget, "safety": _run_safety, "compare": _run_compare,
-                "cables": _run_cables}[args.command](args)
+        return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
+                "compare": _run_compare, "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT

@@ -124,3 +124,21 @@ def rho_from_impedance(impedance_ohm, z_ref_ohm):
     """
     impedance_ohm = np.asarray(impedance_ohm, dtype=complex)
     return (impedance_ohm - z_ref_ohm) / (impedance_ohm + z_ref_ohm)
+
+
+@dataclass(frozen=True)
+class MeasuredAntenna:
+    """A measurement taken at a point of the feed path, looking toward the antenna.
+
+    ``node`` is where it was taken (0 the radio end, k the input of feed element k, a meter);
+    ``table`` is what was measured there: a complex impedance sweep or an SWR reading against
+    the reference impedance; ``source`` says where it came from, for messages.
+    """
+
+    node: int
+    table: ImpedanceTable | SwrTable
+    source: str
+
+    @property
+    def frequency_hz(self):
+        return self.table.frequency_hz

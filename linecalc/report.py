@@ -63,6 +63,8 @@ def budget_document(result: BudgetResult) -> dict:
         }
         if result.total_loss_db_range is not None:
             row["total_loss_db_range"] = [float(v) for v in result.total_loss_db_range[i]]
+        if result.measured:
+            row["measured"] = {key: _finite_or_none(values[i]) for key, values in result.measured.items()}
         if result.exposure:
             row["exposure"] = {key: _finite_or_none(values[i]) for key, values in result.exposure.items()}
         rows.append(row)
@@ -149,6 +151,16 @@ def budget_table(result: BudgetResult) -> str:
         rows = [[label] + _tuner_cells(tuner, i) for i, label in enumerate(result.labels)]
         lines += ["", f"Tuner {tuner.label} (parts from the radio side to the antenna side):",
                   tabulate(rows, headers=["row", "match", "arrangement", "settings"], disable_numparse=True)]
+    if "swr_antenna_least" in result.measured:
+        m = result.measured
+        rows = [[label, f"{_swr_text(m['swr_antenna_least'][i])} to {_swr_text(m['swr_antenna_most'][i])}",
+                 f"{m['sensitivity'][i]:.2f}"] for i, label in enumerate(result.labels)]
+        lines += ["", "The SWR reading moved to the antenna (its phase is unknown, so a range):",
+                  tabulate(rows, headers=["row", "SWR at the antenna", "error multiplier"], disable_numparse=True)]
+    elif "sensitivity" in result.measured:
+        rows = [[label, f"{result.measured['sensitivity'][i]:.2f}"] for i, label in enumerate(result.labels)]
+        lines += ["", "The measured sweep moved to the antenna; a reflection error at the instrument is multiplied by:",
+                  tabulate(rows, headers=["row", "error multiplier"], disable_numparse=True)]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE]
     lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
@@ -308,4 +320,34 @@ def compare_csv(comparison) -> str:
             writer.writerow([label, f"{comparison.frequency_hz[i]:.10g}", name,
                              f"{comparison.power_antenna_w[k, i]:.10g}", f"{comparison.total_loss_db[k, i]:.10g}",
                              "yes" if comparison.winner[i] == k else "", f"{comparison.margin_db[i]:.10g}"])
+    return buffer.getvalue()
+
+
+def feedpoint_rows(frequency_hz, sweep):
+    """(MHz, R, X, SWR, error multiplier, active) per point of a recovered feedpoint sweep."""
+    return [(f / 1e6, z.real, z.imag, swr, m, bool(a)) for f, z, swr, m, a in
+            zip(frequency_hz, sweep.z_antenna_ohm, sweep.swr_antenna, sweep.sensitivity, sweep.active)]
+
+
+def feedpoint_table(station_name, source, frequency_hz, sweep) -> str:
+    body = [[f"{mhz:.4f}", f"{r:.1f}", f"{x:+.1f}", _swr_text(swr), f"{m:.2f}", "ACTIVE" if a else ""]
+            for mhz, r, x, swr, m, a in feedpoint_rows(frequency_hz, sweep)]
+    return (f"{station_name}: {source} moved to the antenna feedpoint\n\n"
+            + tabulate(body, headers=["MHz", "R ohm", "X ohm", "SWR", "error multiplier", ""], disable_numparse=True,
+                       stralign="right") + "\n")
+
+
+def feedpoint_json(station_name, source, frequency_hz, sweep) -> str:
+    return to_json({"station": station_name, "source": source, "points": [
+        {"frequency_hz": float(f), "z_antenna_ohm": [_finite_or_none(r), _finite_or_none(x)],
+         "swr_antenna": _finite_or_none(swr), "sensitivity": _finite_or_none(m), "active": a}
+        for f, (_, r, x, swr, m, a) in zip(frequency_hz, feedpoint_rows(frequency_hz, sweep))]})
+
+
+def feedpoint_csv(station_name, source, frequency_hz, sweep) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(["frequency_hz", "r_ohm", "x_ohm", "swr_antenna", "sensitivity", "active"])
+    for f, (_, r, x, swr, m, a) in zip(frequency_hz, feedpoint_rows(frequency_hz, sweep)):
+        writer.writerow([f"{f:.10g}", f"{r:.10g}", f"{x:.10g}", f"{swr:.10g}", f"{m:.10g}", "yes" if a else ""])
     return buffer.getvalue()

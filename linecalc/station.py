@@ -15,7 +15,7 @@ from .budget import Station
 from .compare import CompareSpec
 from .exposure import MODE_DUTY_FACTORS, duty_factor
 from .feed import build_feed, read_cable
-from .loads import ImpedanceTable, SwrTable, outside_table
+from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
 from .schema import Context, StationError, frequency_table, load_yaml_text, mapping, number, quantity, string
 from .units import UnitError, parse_impedance
 
@@ -63,16 +63,49 @@ def _gain_dbi(doc, ctx):
     return gain
 
 
-def _antenna(doc, ctx):
-    mapping(doc, ctx, optional=("impedance", "swr", "gain"))
-    if ("impedance" in doc) == ("swr" in doc):
-        raise ctx.error("give the antenna as exactly one of impedance: {...} or swr: {...}")
+def _touchstone(doc, ctx, file):
+    """A Touchstone one-port sweep, its path relative to the station file."""
+    from .touchstone import TouchstoneError, read_one_port
+
+    name = string(doc, "touchstone", ctx)
+    path = Path(file).parent / name
+    try:
+        frequency_hz, z_ohm = read_one_port(path)
+    except TouchstoneError as exc:
+        if exc.line is None:
+            raise ctx.child(doc, "touchstone").error(str(exc)) from None
+        raise StationError(exc.file, exc.line, exc.message) from None
+    return ImpedanceTable(frequency_hz, z_ohm), ctx.child(doc, "touchstone"), f"the sweep {name}"
+
+
+def _antenna(doc, ctx, file):
+    """The antenna table, where its key sits, its gain, and where it was measured (None: at the feedpoint)."""
+    mapping(doc, ctx, optional=("impedance", "swr", "touchstone", "measured_at", "gain"))
+    given = [key for key in ("impedance", "swr", "touchstone") if key in doc]
+    if len(given) != 1:
+        raise ctx.error("give the antenna as exactly one of impedance: {...}, swr: {...} or touchstone: FILE")
     gain_dbi = _gain_dbi(doc, ctx)
+    measured_at = string(doc, "measured_at", ctx) if "measured_at" in doc else None
+    if "touchstone" in doc:
+        table, where, source = _touchstone(doc, ctx, file)
+        return table, where, gain_dbi, measured_at, source
     if "impedance" in doc:
         f, z = frequency_table(doc["impedance"], ctx.child(doc, "impedance"), _read_impedance)
-        return ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance"), gain_dbi
+        return (ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance"), gain_dbi, measured_at,
+                f"the impedance measured at {measured_at}")
     f, swr = frequency_table(doc["swr"], ctx.child(doc, "swr"), _read_swr)
-    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr"), gain_dbi
+    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr"), gain_dbi, measured_at, f"the reading at {measured_at}"
+
+
+def _measuring_node(measured_at, feed, ctx):
+    """Node of the feed where a measurement was taken: 0 for the radio, else the named meter's input."""
+    if measured_at == "radio":
+        return 0
+    meters = [k for k, element in enumerate(feed) if element.kind == "meter" and element.label == measured_at]
+    if not meters:
+        known = ", ".join(["radio"] + [e.label for e in feed if e.kind == "meter"])
+        raise ctx.error(f"measured_at names the radio or a meter of the feed, got {measured_at!r}; known: {known}")
+    return meters[0]
 
 
 def _mode(radio, ctx):
@@ -170,13 +203,16 @@ def _station_and_compare(doc, file):
     transmit_fraction = (number(radio, "transmit_fraction", radio_ctx, low=0, high=1) if "transmit_fraction" in radio
                          else TRANSMIT_FRACTION)
     labels, frequency_hz = _rows(doc, ctx)
-    antenna, table_ctx, gain_dbi = _antenna(doc["antenna"], ctx.child(doc, "antenna"))
+    antenna, table_ctx, gain_dbi, measured_at, source = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file)
     outside = outside_table(antenna.frequency_hz, frequency_hz)
     if outside.any():
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
         asked = ", ".join(f"{label} ({f / 1e6:g} MHz)" for label, f, out in zip(labels, frequency_hz, outside) if out)
         raise table_ctx.error(f"{asked} outside the antenna table, which spans {span}; it is never extrapolated")
     feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
+    if measured_at is not None:
+        where = ctx.child(doc, "antenna").child(doc["antenna"], "measured_at")
+        antenna = MeasuredAntenna(_measuring_node(measured_at, feed, where), antenna, source)
     region = doc.get("region", 2)
     spec = _compare_spec(doc["compare"], ctx.child(doc, "compare")) if "compare" in doc else None
     station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,

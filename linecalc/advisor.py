@@ -1,0 +1,602 @@
+"""The length advisor: scan a feeder's length and find where its tuner matches on every frequency.
+
+A feeder (one cable) runs from a tuner to the antenna, with optional fixed two-ports between the
+tuner and the feeder (a balun, a short coax) and between the feeder and the antenna. For every
+length of a scan and every frequency at once, the advisor computes what the tuner sees, whether
+an L or T network can match it to the reference impedance with its parts inside their ranges,
+the least tuner loss, and the largest RMS voltage on the feeder at the radio's power. Lengths are
+evaluated in chunks (``chunk_plan``) so that memory stays bounded; no loop runs per frequency.
+
+The tuner test is the full design of `linecalc.tuner` without its last resort: where no exact
+in-range setting exists the full design searches for the closest setting, the advisor calls the
+load unmatched. See `t_network_least_loss` for what that means for the answers.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .tuner import MATCHED_SWR, T_SCAN_POINTS, capacitor_impedance_ohm, inductor_impedance_ohm, l_network_candidates
+
+# Largest scan (lengths x frequencies) run without an explicit override: about 2.5 s on the
+# 2-core development machine (bench/bench_advisor.py measures 1.3 million in 1.6 s).
+MAX_EVALUATIONS = 2_000_000
+# Default memory budget of one chunk [bytes].
+MEMORY_BUDGET_BYTES = 256 * 2**20
+# Peak memory of one (length, frequency) evaluation inside a chunk [bytes], by network: measured
+# with tracemalloc at 395 (T) and 1740 (L, whose 16 candidate settings are built at once), with a
+# margin; the tests check that a scan stays inside its budget.
+BYTES_PER_EVALUATION = {"T": 512, "L": 2048}
+# Evaluations per chunk at most: chunks whose temporaries fit the processor caches run about
+# twice as fast as chunks of a million (measured on the development machine).
+CACHE_CHUNK_EVALUATIONS = 2**15
+# Golden-section steps that refine the T network's output capacitor between grid points; 12
+# steps bring the loss within 1e-4 dB of the full design's 48 (measured on the bench scan).
+T_REFINE_ITERATIONS = 12
+# A range that is a whole number of steps up to this relative rounding keeps its end point.
+STEP_ROUNDING = 1e-9
+
+
+class AdvisorInputError(ValueError):
+    """Bad input to the length advisor."""
+
+
+class LengthRangeError(AdvisorInputError):
+    """A length range that is empty (start = end), inverted, negative or not finite."""
+
+
+class StepError(AdvisorInputError):
+    """A length step that is zero, negative, not finite or larger than the range."""
+
+
+class ScanTooLarge(AdvisorInputError):
+    """A scan of more evaluations (lengths x frequencies) than allowed without an override."""
+
+
+@dataclass(frozen=True)
+class LengthWindow:
+    """A run of consecutive scanned lengths on which the tuner matches on every frequency.
+
+    ``start_m``, ``end_m`` the first and last matching length [m]; ``worst_tuner_loss_db`` and
+    ``worst_voltage_v`` the largest tuner loss [dB] and RMS feeder voltage [V] over every length
+    of the window and every frequency; ``best_length_m`` the length of the window whose worst
+    tuner loss is least, and that loss ``best_tuner_loss_db`` [dB]; ``at_range_start`` and
+    ``at_range_end`` say that the window touches an end of the scan and may continue beyond it.
+    """
+
+    start_m: float
+    end_m: float
+    worst_tuner_loss_db: float
+    worst_voltage_v: float
+    best_length_m: float
+    best_tuner_loss_db: float
+    at_range_start: bool
+    at_range_end: bool
+
+    @property
+    def width_m(self) -> float:
+        """end_m - start_m [m]: zero for a window of a single scanned length."""
+        return self.end_m - self.start_m
+
+
+@dataclass(frozen=True, eq=False)
+class LengthAdvice:
+    """What the length scan found. Per-length arrays have shape (L,).
+
+    ``length_m`` the scanned lengths [m]; ``frequency_hz`` (nf,) the frequencies [Hz];
+    ``matchable`` True where the tuner matches on every frequency; ``unmatched_count`` the number
+    of frequencies on which it cannot; ``worst_tuner_loss_db`` [dB] and ``worst_voltage_v``
+    [V, RMS] the largest least-loss tuner setting and the largest feeder voltage over the
+    frequencies the tuner matches (NaN where it matches none; where ``matchable`` is False they
+    leave the unmatched frequencies out); ``worst_loss_frequency_hz`` and
+    ``worst_voltage_frequency_hz`` where those occur [Hz] (NaN likewise); ``windows`` the runs of
+    matchable lengths, least worst-case tuner loss first (then least voltage);
+    ``windows_by_voltage`` the same windows, least worst-case voltage first (then least loss);
+    ``radio_power_w`` net power into the tuner [W]; ``network`` 'T' or 'L'; ``chunk_lengths``
+    lengths per chunk and ``chunk_peak_bytes`` the peak memory estimate of one chunk [bytes].
+    """
+
+    length_m: np.ndarray
+    frequency_hz: np.ndarray
+    matchable: np.ndarray
+    unmatched_count: np.ndarray
+    worst_tuner_loss_db: np.ndarray
+    worst_voltage_v: np.ndarray
+    worst_loss_frequency_hz: np.ndarray
+    worst_voltage_frequency_hz: np.ndarray
+    windows: tuple[LengthWindow, ...]
+    windows_by_voltage: tuple[LengthWindow, ...]
+    radio_power_w: float
+    network: str
+    chunk_lengths: int
+    chunk_peak_bytes: int
+
+
+def scan_lengths_m(length_min_m, length_max_m, step_m):
+    """The lengths of a scan: ``length_min_m``, then every ``step_m`` up to ``length_max_m``.
+
+    Parameters
+    ----------
+    length_min_m, length_max_m : float
+        First and last length [m]; 0 <= min < max, both finite.
+    step_m : float
+        Step [m]; positive, finite and no larger than the range.
+
+    Returns
+    -------
+    ndarray, shape (L,)
+        The lengths [m]; the end is included when the range is a whole number of steps.
+
+    Raises
+    ------
+    LengthRangeError, StepError
+    """
+    low, step, count = _length_count(length_min_m, length_max_m, step_m)
+    return low + step * np.arange(count)
+
+
+def _length_count(length_min_m, length_max_m, step_m):
+    """Checked start [m], step [m] and number of lengths of a scan (see `scan_lengths_m`)."""
+    low, high, step = (float(x) for x in (length_min_m, length_max_m, step_m))
+    if not (np.isfinite(low) and np.isfinite(high)):
+        raise LengthRangeError(f"length range must be finite, got {low:g} m to {high:g} m")
+    if low < 0:
+        raise LengthRangeError(f"a length is zero or more, got a range starting at {low:g} m")
+    if high == low:
+        raise LengthRangeError(f"length range {low:g} m to {high:g} m is empty")
+    if high < low:
+        raise LengthRangeError(f"length range {low:g} m to {high:g} m is inverted (start above end)")
+    if not (np.isfinite(step) and step > 0):
+        raise StepError(f"length step must be positive, got {step:g} m")
+    if step > high - low:
+        raise StepError(f"length step {step:g} m is larger than the range {low:g} m to {high:g} m")
+    return low, step, int(np.floor((high - low) / step * (1 + STEP_ROUNDING))) + 1
+
+
+def band_scan_frequencies(bands, points_per_band=3):
+    """Frequencies that stand for whole bands: both edges and points evenly between them.
+
+    Parameters
+    ----------
+    bands : sequence of linecalc.bands.Band
+    points_per_band : int
+        Points per band, 2 or more; 3 gives the edges and the centre.
+
+    Returns
+    -------
+    frequency_hz : ndarray, shape (len(bands) * points_per_band,)
+        [Hz], band by band, each band from its lower edge up.
+    band_index : ndarray of int, same shape
+        Which band each frequency stands for.
+    """
+    if points_per_band < 2:
+        raise AdvisorInputError(f"points_per_band must be 2 or more (the edges), got {points_per_band}")
+    frequency_hz = np.concatenate([np.linspace(b.low_hz, b.high_hz, points_per_band) for b in bands])
+    return frequency_hz, np.repeat(np.arange(len(bands)), points_per_band)
+
+
+def _swr_at_most(z_load, r0_ohm, swr):
+    """Where the SWR of ``z_load`` against ``r0_ohm`` is at most ``swr`` (|rho| <= (s-1)/(s+1))."""
+    return np.abs(z_load - r0_ohm) <= (swr - 1) / (swr + 1) * np.abs(z_load + r0_ohm)
+
+
+def _t_loss_ratio(c2_f, inv_omega, r_load, x_load, r0_ohm, parts, limits):
+    """P_in / P_load of the least-loss matched T with output capacitor ``c2_f``; inf where none.
+
+    The output capacitor turns the load into z2 (admittance y2 = g - j b); the input
+    capacitor and the shunt inductor are an L section (series part toward the input) in closed
+    form with the losses, the quadratic that `linecalc.tuner` solves: Re((1 - j/Q_C) /
+    (y2 + u k)) = R0 for the shunt admittance u k, k = 1/(1/Q_L + j), written out in real
+    arithmetic. A root counts where the inductance 1/(omega u) and the series reactance
+    -Im(1/(y2 + u k)) give parts in range (``limits``: bounds of u and of that reactance). The
+    input is then exactly R0, so with 1 A in the load P_in / P_load = R0 |1 + u k z2|^2 / R_load.
+    """
+    u_low, u_high, x_low, x_high = limits
+    inv_qc = 1 / parts.capacitor_q
+    k = 1 / (1 / parts.inductor_q + 1j)
+    kr, ki = k.real, k.imag
+    a2 = r0_ohm * abs(k) ** 2
+    x_c2 = inv_omega * (1.0 / c2_f)
+    z2r, z2i = r_load + x_c2 * inv_qc, x_load - x_c2
+    inv_m2 = 1.0 / (z2r * z2r + z2i * z2i)
+    g, b = z2r * inv_m2, z2i * inv_m2
+    a1 = (2 * r0_ohm * kr) * g - (2 * r0_ohm * ki) * b - (kr - ki * inv_qc)
+    a0 = r0_ohm * inv_m2 - g - b * inv_qc
+    discriminant = a1 * a1 - (4 * a2) * a0
+    real = discriminant >= 0
+    # the cancellation-free roots of Press et al., Numerical Recipes, 3rd ed., section 5.6
+    q = -0.5 * (a1 + np.copysign(np.sqrt(np.where(real, discriminant, 0.0)), a1))
+    pr, pi = kr * z2r - ki * z2i, kr * z2i + ki * z2r  # k z2
+    p2 = pr * pr + pi * pi
+    best = np.full(np.shape(q), np.inf)
+    for u in (q * (1 / a2), np.divide(a0, q, out=np.zeros_like(q), where=q != 0)):
+        wr, wi = g + u * kr, u * ki - b  # y2 + u k
+        mw = wr * wr + wi * wi
+        # series reactance wi / mw within [x_low, x_high], multiplied through by mw > 0
+        ok = real & (u >= u_low) & (u <= u_high) & (wi >= x_low * mw) & (wi <= x_high * mw)
+        ratio = 1 + u * (2 * pr + u * p2)
+        best = np.where(ok & (ratio < best), ratio, best)
+    return best * (r0_ohm / r_load)
+
+
+def t_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
+    """Least loss of a high-pass T network (series C, shunt L, series C) that matches the load.
+
+    Parameters
+    ----------
+    frequency_hz : array_like
+        Frequency [Hz]; broadcasts with ``z_load_ohm``.
+    z_load_ohm : array_like of complex
+        Impedance at the tuner's output [ohm].
+    r0_ohm : float
+        Reference resistance at its input [ohm].
+    parts : linecalc.tuner.TunerParts
+
+    Returns
+    -------
+    loss_db : ndarray
+        10 log10(P_in / P_load) of the least-loss setting found [dB]; inf where none matches.
+    matched : ndarray of bool
+        Where an in-range matched setting (or the bypass, when the load is already matched to
+        ``MATCHED_SWR``) exists.
+    output_capacitance_f : ndarray
+        The output capacitor of that setting [F] (the other two parts follow in closed form);
+        NaN where unmatched or bypassed.
+
+    Notes
+    -----
+    The scan of `linecalc.tuner.design_t_network`: the output capacitor on the same
+    ``T_SCAN_POINTS`` log-spaced values, the other two parts in closed form; then a golden-section
+    refinement of ``T_REFINE_ITERATIONS`` steps (one evaluation each) between the best value's
+    grid neighbours, where the full design takes 48. The full design's last resort, a search for
+    the closest setting where no grid value matches, is left out. So a load this function calls
+    matched is matched by the full design (the same grid value matches there), while a load the
+    full design rescues by its search counts as unmatched here. The loss is that of a real
+    in-range setting, the least of every value the scan and the refinement meet: at most 1e-3 dB
+    above the full design's, and sometimes below it (by up to 0.4 dB for extreme loads, in
+    trials) where the bracket is not unimodal and the full design's golden section settles on
+    its worse part.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 5.1 (lumped-element L networks);
+    Press et al., Numerical Recipes, 3rd ed., section 10.2 (golden-section search).
+    """
+    f, z = np.broadcast_arrays(np.asarray(frequency_hz, dtype=float), np.asarray(z_load_ohm, dtype=complex))
+    inv_omega = 1 / (2 * np.pi * f)
+    r_load, x_load = z.real, z.imag
+    positive = r_load > 0  # no network delivers power into a pure reactance
+    r_load = np.where(positive, r_load, 1.0)  # stand-in, masked out below
+    limits = (inv_omega / parts.inductance_max_h, inv_omega / parts.inductance_min_h,
+              -inv_omega / parts.capacitance_min_f, -inv_omega / parts.capacitance_max_f)
+    # every value of the full design's grid: a matching range of the output capacitor can be
+    # narrower than one step (a coarser grid lost whole windows in trials)
+    grid = np.log(np.geomspace(parts.capacitance_min_f, parts.capacitance_max_f, T_SCAN_POINTS))
+    best, best_log_c2 = np.full(f.shape, np.inf), np.full(f.shape, np.nan)
+
+    def evaluate(log_c2):
+        """The loss ratio at ``log_c2``, remembered where it beats the best so far."""
+        nonlocal best, best_log_c2
+        ratio = _t_loss_ratio(np.exp(log_c2), inv_omega, r_load, x_load, r0_ohm, parts, limits)
+        better = ratio < best
+        best, best_log_c2 = np.where(better, ratio, best), np.where(better, log_c2, best_log_c2)
+        return ratio
+
+    for log_c2 in grid:
+        evaluate(log_c2)
+    found = np.isfinite(best)
+    index = np.searchsorted(grid, np.where(found, best_log_c2, grid[0]))
+    low, high = grid[np.maximum(index - 1, 0)], grid[np.minimum(index + 1, grid.size - 1)]
+    inv_phi = (np.sqrt(5) - 1) / 2
+    x1, x2 = high - inv_phi * (high - low), low + inv_phi * (high - low)
+    f1, f2 = evaluate(x1), evaluate(x2)
+    for _ in range(T_REFINE_ITERATIONS):
+        left = f1 <= f2  # the minimum lies in [low, x2]: x1 becomes the new x2
+        low, high = np.where(left, low, x1), np.where(left, x2, high)
+        x1, x2 = high - inv_phi * (high - low), low + inv_phi * (high - low)
+        fresh = evaluate(np.where(left, x1, x2))
+        f1, f2 = np.where(left, fresh, f2), np.where(left, f1, fresh)
+    bypass = positive & _swr_at_most(z, r0_ohm, MATCHED_SWR)
+    best = np.where(bypass, 1.0, np.where(positive, best, np.inf))
+    matched = np.isfinite(best)
+    output_capacitance_f = np.where(matched & ~bypass, np.exp(best_log_c2), np.nan)
+    return 10 * np.log10(best), matched, output_capacitance_f
+
+
+def l_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
+    """Least loss of an L network that matches the load, from its exact lossy settings.
+
+    Parameters as for `t_network_least_loss`; returns ``loss_db`` and ``matched`` as it does.
+
+    Notes
+    -----
+    Every setting of `linecalc.tuner.l_network_candidates` and the bypass, each driven with the
+    load: with 1 A in the load, a shunt part adds V/Z to the current and a series part adds Z I
+    to the voltage; loss 10 log10(Re(V I*) / Re(z_load)), kept where the input SWR is at most
+    ``MATCHED_SWR``. This is `linecalc.tuner.design_l_network` without its closest-setting
+    search: matched here means matched there, and the loss is the same.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 5.1 (lumped-element L networks) and
+    section 4.4 (chain matrices of series and shunt elements).
+    """
+    f, z = np.broadcast_arrays(np.asarray(frequency_hz, dtype=float), np.asarray(z_load_ohm, dtype=complex))
+    positive = z.real > 0
+    z_safe = np.where(positive, z, 1.0)  # stand-in, masked out below
+    best = np.where(positive & _swr_at_most(z, r0_ohm, MATCHED_SWR), 1.0, np.inf)
+    for candidate in l_network_candidates(f, z_safe, r0_ohm, parts):
+        values = candidate.component_values
+        present = np.all([~np.isnan(v) for v in values.values()], axis=0)
+        v, i = z_safe, np.ones_like(z_safe)
+        # drive from the load toward the input: output shunt, series part, input shunt
+        for name in sorted(values, key=lambda n: (not n.startswith("output"), not n.startswith("series"))):
+            value = np.where(present, values[name], 1.0)  # stand-in where absent
+            impedance = (inductor_impedance_ohm(f, value, parts.inductor_q) if name.endswith("_h")
+                         else capacitor_impedance_ohm(f, value, parts.capacitor_q))
+            v, i = (v + impedance * i, i) if name.startswith("series") else (v, i + v / impedance)
+        ok = present & positive & _swr_at_most(v / i, r0_ohm, MATCHED_SWR)
+        ratio = (v * i.conj()).real / z_safe.real
+        best = np.where(ok & (ratio < best), ratio, best)
+    return 10 * np.log10(best), np.isfinite(best)
+
+
+_LEAST_LOSS = {"T": lambda *args: t_network_least_loss(*args)[:2], "L": l_network_least_loss}
+
+
+def feeder_peak_voltage(gamma_per_m, length_m, rho_in, forward_in_v):
+    """Largest RMS voltage magnitude along a line, from the waves at its input.
+
+    Parameters
+    ----------
+    gamma_per_m : array_like of complex
+        Propagation constant [1/m]; broadcasts.
+    length_m : array_like
+        Line length [m]; broadcasts.
+    rho_in : array_like of complex
+        Reflection coefficient at the input against the line's characteristic impedance [1].
+    forward_in_v : array_like
+        |V+| of the forward wave at the input [V, RMS].
+
+    Returns
+    -------
+    ndarray
+        max |V(x)| over 0 <= x <= length [V]: the larger of the input, the output and the first
+        standing-wave peak from the input if it lies on the line.
+
+    Notes
+    -----
+    V(x) = V+ e^(-gamma x) (1 + rho_in e^(2 gamma x)) at a distance x from the input. The peaks
+    sit where the phase of rho_in e^(2 j beta x) is a whole turn, and their height
+    |V+| (e^(-alpha x) + |rho_in| e^(alpha x)) falls with x, so the first peak is the highest; the
+    largest value on the line is there or at an end. On a lossy line the true maximum lies a
+    fraction (alpha/beta)^2 away in height, far below anything this ranking needs.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., sections 2.3 (standing waves, V_max = |V+|(1 + |rho|))
+    and 2.7 (the lossy line).
+    """
+    gl = np.asarray(length_m, dtype=float) * np.asarray(gamma_per_m, dtype=complex)
+    rho_in = np.asarray(rho_in, dtype=complex)
+    alpha, beta = np.real(gamma_per_m), np.imag(gamma_per_m)
+    at_input = np.abs(1 + rho_in)
+    at_output = np.exp(-gl.real) * np.abs(1 + rho_in * np.exp(2 * gl))
+    x_peak = np.mod(-np.angle(rho_in), 2 * np.pi) / (2 * beta)
+    peak = np.exp(-alpha * x_peak) + np.abs(rho_in) * np.exp(alpha * x_peak)
+    on_line = x_peak <= np.asarray(length_m, dtype=float)
+    largest = np.maximum(np.maximum(at_input, at_output), np.where(on_line, peak, 0.0))
+    return np.asarray(forward_in_v) * largest
+
+
+def voltage_along_line(z0_ohm, gamma_per_m, length_m, voltage_in_v, current_in_a, points):
+    """RMS voltage magnitude along a line from the phasors at its input (the radio end).
+
+    Parameters
+    ----------
+    z0_ohm, gamma_per_m : ndarray of complex, shape (nf,)
+        Characteristic impedance [ohm] and propagation constant [1/m].
+    length_m : float
+        Line length [m].
+    voltage_in_v, current_in_a : ndarray of complex, shape (nf,)
+        RMS voltage [V] and current [A] at the input, toward the line (from a path solution).
+    points : int
+        Number of positions, 2 or more, evenly from the input to the output.
+
+    Returns
+    -------
+    position_m : ndarray, shape (points,)
+        Distance from the input [m].
+    voltage_v : ndarray, shape (points, nf)
+        |V(x)| [V, RMS].
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., sections 2.1 and 2.7: V(x) = V+ e^(-gamma x) +
+    V- e^(gamma x) with V+- = (V_in +- Z0 I_in) / 2.
+    """
+    position_m = np.linspace(0.0, float(length_m), int(points))
+    forward = (voltage_in_v + z0_ohm * current_in_a) / 2
+    backward = (voltage_in_v - z0_ohm * current_in_a) / 2
+    gx = position_m[:, None] * gamma_per_m
+    return position_m, np.abs(forward * np.exp(-gx) + backward * np.exp(gx))
+
+
+def chunk_plan(n_lengths, n_frequencies, network, memory_budget_bytes=MEMORY_BUDGET_BYTES):
+    """Lengths per chunk and that chunk's peak memory estimate [bytes].
+
+    A chunk holds at most ``memory_budget_bytes / BYTES_PER_EVALUATION[network]`` evaluations
+    and at most ``CACHE_CHUNK_EVALUATIONS``, and at least one length (a budget too small for one
+    length is exceeded by that one length; the estimate says by how much).
+    """
+    if not memory_budget_bytes > 0:
+        raise AdvisorInputError(f"memory budget must be positive, got {memory_budget_bytes}")
+    per_evaluation = BYTES_PER_EVALUATION[network]
+    evaluations = min(memory_budget_bytes // per_evaluation, CACHE_CHUNK_EVALUATIONS)
+    lengths = int(max(1, min(n_lengths, evaluations // n_frequencies)))
+    return lengths, lengths * n_frequencies * per_evaluation
+
+
+def _check_inputs(frequency_hz, z_antenna_ohm, network, radio_power_w, r0_ohm, fixed):
+    f = np.asarray(frequency_hz, dtype=float)
+    z = np.asarray(z_antenna_ohm, dtype=complex)
+    if f.ndim != 1 or f.size == 0 or not np.all(np.isfinite(f) & (f > 0)):
+        raise AdvisorInputError("frequency_hz must be a non-empty 1-D array of positive, finite frequencies")
+    if z.shape != f.shape or not np.all(np.isfinite(z) & (z.real >= 0)):
+        raise AdvisorInputError("z_antenna_ohm must be finite with a resistance of zero or more, one per frequency")
+    if network not in _LEAST_LOSS:
+        raise AdvisorInputError(f"the advisor designs an 'L' or a 'T' network, got {network!r}")
+    if not (np.isfinite(radio_power_w) and radio_power_w > 0):
+        raise AdvisorInputError(f"radio power must be positive and finite, got {radio_power_w}")
+    if not (np.isfinite(r0_ohm) and r0_ohm > 0):
+        raise AdvisorInputError(f"reference impedance must be positive and finite, got {r0_ohm}")
+    for abcd in fixed:
+        if np.shape(abcd) != f.shape + (2, 2):
+            raise AdvisorInputError(f"a fixed chain matrix has shape (nf, 2, 2) = {f.shape + (2, 2)}, "
+                                    f"got {np.shape(abcd)}")
+    return f, z
+
+
+def _cascade(abcd_list, v, i):
+    """Walk [V, I] through chain matrices from the last toward the first."""
+    for abcd in reversed(abcd_list):
+        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
+    return v, i
+
+
+def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v):
+    """Runs of consecutive matchable lengths as `LengthWindow`, in scan order.
+
+    Parameters
+    ----------
+    length_m : ndarray, shape (L,)
+        Scanned lengths [m], increasing.
+    matchable : ndarray of bool, shape (L,)
+    worst_tuner_loss_db, worst_voltage_v : ndarray, shape (L,)
+        Per-length worst cases [dB], [V]; finite where ``matchable``.
+    """
+    edges = np.diff(np.concatenate([[0], matchable.astype(np.int8), [0]]))
+    starts, ends = np.flatnonzero(edges == 1), np.flatnonzero(edges == -1) - 1
+    windows = []
+    for first, last in zip(starts, ends):
+        run = slice(first, last + 1)
+        best = first + int(np.argmin(worst_tuner_loss_db[run]))
+        windows.append(LengthWindow(
+            start_m=float(length_m[first]), end_m=float(length_m[last]),
+            worst_tuner_loss_db=float(np.max(worst_tuner_loss_db[run])),
+            worst_voltage_v=float(np.max(worst_voltage_v[run])),
+            best_length_m=float(length_m[best]), best_tuner_loss_db=float(worst_tuner_loss_db[best]),
+            at_range_start=bool(first == 0), at_range_end=bool(last == len(length_m) - 1)))
+    return tuple(windows)
+
+
+def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm, radio_power_w,
+                  length_min_m, length_max_m, step_m, abcd_tuner_to_feeder=(), abcd_feeder_to_antenna=(),
+                  max_evaluations=MAX_EVALUATIONS, allow_large_scan=False,
+                  memory_budget_bytes=MEMORY_BUDGET_BYTES, progress=None) -> LengthAdvice:
+    """Scan the feeder length and find the windows where the tuner matches on every frequency.
+
+    Parameters
+    ----------
+    cable : linecalc.cables.Cable
+        The feeder whose length is scanned.
+    frequency_hz : array_like, shape (nf,)
+        Frequencies that must all be matched [Hz], e.g. from `band_scan_frequencies`.
+    z_antenna_ohm : array_like of complex, shape (nf,)
+        Antenna feedpoint impedance at those frequencies [ohm]; resistance >= 0.
+    parts : linecalc.tuner.TunerParts
+        Ranges and Qs of the tuner's parts.
+    network : {'T', 'L'}
+        The tuner's network (see `t_network_least_loss`, `l_network_least_loss`).
+    r0_ohm : float
+        Reference impedance the tuner matches to [ohm].
+    radio_power_w : float
+        Net power into the tuner's input [W]; voltages scale with its square root.
+    length_min_m, length_max_m, step_m : float
+        The scan (see `scan_lengths_m`) [m].
+    abcd_tuner_to_feeder, abcd_feeder_to_antenna : sequence of ndarray, each (nf, 2, 2)
+        Fixed chain matrices between the tuner and the feeder and between the feeder and the
+        antenna, each list in order from the radio side; empty by default (the tuner drives
+        the feeder, which drives the antenna).
+    max_evaluations : int
+        Largest lengths x frequencies without ``allow_large_scan``; default ``MAX_EVALUATIONS``.
+    allow_large_scan : bool
+        The explicit override of ``max_evaluations``.
+    memory_budget_bytes : int
+        Peak memory of one chunk [bytes]; see `chunk_plan`.
+    progress : callable(done, total) or None
+        Called after each chunk with the lengths done and the lengths in all.
+
+    Returns
+    -------
+    LengthAdvice
+
+    Raises
+    ------
+    LengthRangeError, StepError, ScanTooLarge, AdvisorInputError
+
+    Notes
+    -----
+    For each chunk of lengths, with a forward wave of 1 V at the feeder's input:
+    rho_in = rho_out e^(-2 gamma l) with rho_out the reflection of the antenna (through its fixed
+    two-ports) against the feeder's complex Z0; V = 1 + rho_in, I = (1 - rho_in) / Z0; through the
+    fixed two-ports to the tuner's output, whose impedance the tuner must match. With its least
+    loss L_t and the power P_t delivered into its output, the radio's power scales the waves by
+    sqrt(P_radio / (P_t 10^(L_t/10))); the feeder's largest voltage follows from
+    `feeder_peak_voltage`. The voltage is RMS: its peak is sqrt(2) times as high.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., sections 2.3 and 2.7 (reflection along a lossy
+    line) and 4.4 (chain matrices).
+    """
+    f, z_antenna = _check_inputs(frequency_hz, z_antenna_ohm, network, radio_power_w, r0_ohm,
+                                 tuple(abcd_tuner_to_feeder) + tuple(abcd_feeder_to_antenna))
+    _, _, n_lengths = _length_count(length_min_m, length_max_m, step_m)
+    evaluations = n_lengths * f.size
+    if evaluations > max_evaluations and not allow_large_scan:
+        raise ScanTooLarge(f"{n_lengths:,} lengths x {f.size} frequencies = {evaluations:,} evaluations, "
+                           f"more than the {max_evaluations:,} allowed without the override; "
+                           "use a coarser step, a shorter range or fewer frequencies, or allow a large scan")
+    length_m = scan_lengths_m(length_min_m, length_max_m, step_m)
+    chunk, chunk_bytes = chunk_plan(length_m.size, f.size, network, memory_budget_bytes)
+
+    z0, gamma = cable.constants(f)
+    v_out, i_out = _cascade(list(abcd_feeder_to_antenna), z_antenna, np.ones_like(z_antenna))
+    rho_out = (v_out - z0 * i_out) / (v_out + z0 * i_out)
+    least_loss = _LEAST_LOSS[network]
+
+    worst_loss = np.full(length_m.size, np.nan)
+    worst_voltage = np.full(length_m.size, np.nan)
+    loss_at = np.full(length_m.size, np.nan)
+    voltage_at = np.full(length_m.size, np.nan)
+    unmatched = np.zeros(length_m.size, dtype=int)
+    for start in range(0, length_m.size, chunk):
+        lengths = length_m[start:start + chunk, None]
+        rho_in = rho_out * np.exp(-2 * gamma * lengths)                    # (chunk, nf)
+        v_t, i_t = _cascade(list(abcd_tuner_to_feeder), 1 + rho_in, (1 - rho_in) / z0)
+        loss_db, matched = least_loss(f, v_t / i_t, r0_ohm, parts)
+        # power into the tuner per 1 V forward wave; a stand-in where unmatched (masked below)
+        power_in = np.where(matched, (v_t * i_t.conj()).real * 10 ** (np.where(matched, loss_db, 0.0) / 10), 1.0)
+        voltage = feeder_peak_voltage(gamma, lengths, rho_in, np.sqrt(radio_power_w / power_in))
+        rows = slice(start, start + lengths.shape[0])
+        unmatched[rows] = np.sum(~matched, axis=1)
+        some = np.any(matched, axis=1)
+        for values, worst, at in ((loss_db, worst_loss, loss_at), (voltage, worst_voltage, voltage_at)):
+            masked = np.where(matched, values, -np.inf)
+            index = np.argmax(masked, axis=1)
+            worst[rows] = np.where(some, np.take_along_axis(masked, index[:, None], axis=1)[:, 0], np.nan)
+            at[rows] = np.where(some, f[index], np.nan)
+        if progress is not None:
+            progress(rows.stop, length_m.size)
+
+    matchable = unmatched == 0
+    windows = find_windows(length_m, matchable, worst_loss, worst_voltage)
+    return LengthAdvice(
+        length_m=length_m, frequency_hz=f, matchable=matchable, unmatched_count=unmatched,
+        worst_tuner_loss_db=worst_loss, worst_voltage_v=worst_voltage,
+        worst_loss_frequency_hz=loss_at, worst_voltage_frequency_hz=voltage_at,
+        windows=tuple(sorted(windows, key=lambda w: (w.worst_tuner_loss_db, w.worst_voltage_v, w.start_m))),
+        windows_by_voltage=tuple(sorted(windows, key=lambda w: (w.worst_voltage_v, w.worst_tuner_loss_db, w.start_m))),
+        radio_power_w=float(radio_power_w), network=network, chunk_lengths=chunk, chunk_peak_bytes=chunk_bytes)
