@@ -40,6 +40,7 @@ class Station:
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
     antenna_gain_dbi: float = 2.15
+    band_edges_hz: tuple = ()  # per row: (low, high) of its band [Hz], or None for an explicit frequency
     source_file: str = "<station>"
     key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
 

@@ -8,6 +8,7 @@ import argparse
 import sys
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
+DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
 
 # Frequencies of the `cables` listing [Hz]: 80 m, 20 m, 10 m, 2 m and 70 cm.
 LISTING_FREQUENCIES_HZ = (3.6e6, 14.2e6, 28.5e6, 146e6, 435e6)
@@ -29,6 +30,11 @@ def build_parser() -> argparse.ArgumentParser:
                         help="station files (YAML) or folders of them (*.yaml); one result set each")
     budget.add_argument("--format", choices=("table", "json", "csv"), default="table",
                         help="output format (default: table)")
+    budget.add_argument("--sweep", type=int, nargs="?", const=DEFAULT_SWEEP_POINTS, metavar="N",
+                        help=f"also sweep each band edge to edge at N points (default {DEFAULT_SWEEP_POINTS})")
+    budget.add_argument("--radio-s1p", metavar="FILE.s1p",
+                        help="write the impedance the radio sees (across the sweep with --sweep) as a Touchstone file")
+    budget.add_argument("--force", action="store_true", help="overwrite an existing --radio-s1p file")
 
     safety = commands.add_parser("safety", help="voltages on lines and tuner parts at PEP, RF-exposure distances, "
                                  "with the cautions")
@@ -84,6 +90,37 @@ def _station_paths(arguments):
     return paths
 
 
+def _sweep(station, points):
+    """Every band of the station edge to edge; a station that cannot be swept is bad input."""
+    from .bandsweep import solve_band_sweeps
+    from .budget import BudgetError
+    from .station import StationError
+
+    try:
+        return solve_band_sweeps(station, points)[1]
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+
+
+def _export_radio(args, station, result, sweeps):
+    """--radio-s1p: the impedance the radio sees, across the sweep if there is one."""
+    import numpy as np
+
+    if result.z_radio_ohm is None:
+        raise OptionError("--radio-s1p: an antenna given by SWR alone has no phase, so no impedance at the radio")
+    if sweeps:
+        frequency = np.concatenate([s.frequency_hz for s in sweeps])
+        z = np.concatenate([s.z_radio_ohm for s in sweeps])
+    else:
+        frequency, z = result.frequency_hz, result.z_radio_ohm
+    order = np.argsort(frequency, kind="stable")
+    frequency, z = frequency[order], z[order]
+    keep = np.concatenate([[True], np.diff(frequency) > 0])  # a band centre may repeat a sweep point
+    inputs = [args.station[0]]
+    _write_s1p(args.radio_s1p, frequency[keep], z[keep], station.reference_impedance_ohm,
+               f"impedance at the radio of {station.name}, computed by linecalc", args.force, inputs)
+
+
 def _run_budget(args) -> int:
     """One station: its result, or its error. Several: every result that can be had, each error on
     stderr, and exit status 2 if any station failed."""
@@ -93,22 +130,35 @@ def _run_budget(args) -> int:
     paths = _station_paths(args.station)
     if not paths:
         raise OptionError(f"no station files (*.yaml) in {', '.join(args.station)}")
-    if len(paths) == 1:
-        results = [_solve(load_station(paths[0]))]
-    else:
-        results, failed = [], False
-        for path in paths:
-            try:
-                results.append(_solve(load_station(path)))
-            except StationError as exc:
-                print(str(exc), file=sys.stderr)
-                failed = True
+    if args.radio_s1p and len(paths) > 1:
+        raise OptionError("--radio-s1p: give exactly one station")
+    if args.sweep is not None and args.sweep < 2:
+        raise OptionError("--sweep: at least 2 points per band")
+    results, sweeps, failed = [], [], False
+    for path in paths:
+        try:
+            station = load_station(path)
+            results.append(_solve(station))
+            sweeps.append(_sweep(station, args.sweep) if args.sweep else None)
+        except StationError as exc:
+            if len(paths) == 1:
+                raise
+            print(str(exc), file=sys.stderr)
+            failed = True
+            if len(results) > len(sweeps):
+                results.pop()
+    if args.radio_s1p:
+        _export_radio(args, station, results[0], sweeps[0])
     if args.format == "json":
         documents = [report.budget_document(r) for r in results]
+        for document, sweep in zip(documents, sweeps):
+            for row, band in zip(document["rows"], sweep or ()):
+                row["sweep"] = report.sweep_document(band)
         sys.stdout.write(report.to_json(documents[0] if len(paths) == 1 else documents))
     else:
         render = {"table": report.budget_table, "csv": report.budget_csv}[args.format]
-        sys.stdout.write("\n".join(render(r) for r in results))
+        sys.stdout.write("\n".join(render(r) + (report.sweep_table(sw) if sw and args.format == "table" else "")
+                                   for r, sw in zip(results, sweeps)))
     for result in results:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
@@ -192,7 +242,7 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
     try:
         write_one_port(path, frequency_hz, z_ohm, z_ref_ohm, comment, force=force, protected=inputs)
     except TouchstoneWriteError as exc:
-        raise OptionError(f"--output: {exc}") from None
+        raise OptionError(str(exc)) from None
 
 
 def _run_feedpoint(args) -> int:

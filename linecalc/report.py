@@ -351,3 +351,52 @@ def feedpoint_csv(station_name, source, frequency_hz, sweep) -> str:
     for f, (_, r, x, swr, m, a) in zip(frequency_hz, feedpoint_rows(frequency_hz, sweep)):
         writer.writerow([f"{f:.10g}", f"{r:.10g}", f"{x:.10g}", f"{swr:.10g}", f"{m:.10g}", "yes" if a else ""])
     return buffer.getvalue()
+
+
+def _mhz(value):
+    return "n/a" if not math.isfinite(value) else f"{value / 1e6:.4f}"
+
+
+def sweep_table(sweeps) -> str:
+    """Per swept band: the lowest SWR and where, the SWR at both edges, and the bandwidth inside
+    1.5:1, 2:1 and 3:1, at the antenna and at the radio."""
+    lines = []
+    for sweep in sweeps:
+        st = sweep.statistics
+        if st is None:
+            continue
+        body = []
+        for end, name in ((0, "antenna"), (1, "radio")):
+            widths = [f"{st.bandwidth_hz[end, k] / 1e3:.0f}{'+' if st.clipped_low[end, k] or st.clipped_high[end, k] else ''}"
+                      for k in range(len(st.swr_limits))]
+            body.append([name, f"{_swr_text(st.swr_min[end])} at {_mhz(st.frequency_swr_min_hz[end])}",
+                         _swr_text(st.swr_low_edge[end]), _swr_text(st.swr_high_edge[end]), *widths])
+        headers = ["SWR at", "lowest SWR at MHz", f"{_mhz(sweep.frequency_hz[0])} MHz", f"{_mhz(sweep.frequency_hz[-1])} MHz",
+                   *(f"kHz within {limit:g}:1" for limit in st.swr_limits)]
+        lines += [f"{sweep.label}, {sweep.frequency_hz.size} points edge to edge:",
+                  tabulate(body, headers=headers, disable_numparse=True, stralign="right"), ""]
+    if lines:
+        lines.append("+ the region reaches the band edge: the bandwidth is at least this")
+    return "\n".join(lines) + "\n"
+
+
+def sweep_document(sweep) -> dict:
+    st = sweep.statistics
+    if st is None:
+        return {"frequency_hz": [float(f) for f in sweep.frequency_hz],
+                "swr_antenna": _json_list(sweep.swr_antenna), "swr_radio": _json_list(sweep.swr_radio)}
+
+    def pair(values):
+        return {"antenna": _json_list(values[0]), "radio": _json_list(values[1])}
+
+    return {"frequency_hz": [float(f) for f in sweep.frequency_hz],
+            "swr_antenna": _json_list(sweep.swr_antenna), "swr_radio": _json_list(sweep.swr_radio),
+            "swr_min": {"antenna": _finite_or_none(st.swr_min[0]), "radio": _finite_or_none(st.swr_min[1])},
+            "frequency_swr_min_hz": {"antenna": _finite_or_none(st.frequency_swr_min_hz[0]),
+                                     "radio": _finite_or_none(st.frequency_swr_min_hz[1])},
+            "swr_limits": list(st.swr_limits), "bandwidth_hz": pair(st.bandwidth_hz),
+            "lower_hz": pair(st.lower_hz), "upper_hz": pair(st.upper_hz)}
+
+
+def _json_list(values):
+    return [_finite_or_none(v) for v in np.ravel(values)]

@@ -124,8 +124,9 @@ def _mode(radio, ctx):
 
 
 def _rows(doc, ctx):
-    """Row labels and frequencies [Hz]: the bands first, then the explicit frequencies."""
-    labels, frequencies = [], []
+    """Row labels, frequencies [Hz] and band edges [Hz] (None for an explicit frequency): the bands
+    first, then the explicit frequencies."""
+    labels, frequencies, edges = [], [], []
     if "bands" in doc:
         where = ctx.child(doc, "bands")
         if "region" not in doc:
@@ -143,6 +144,7 @@ def _rows(doc, ctx):
                 raise where.child(names, i).error(str(exc)) from None
             labels.append(band.name)
             frequencies.append(band.centre_hz)
+            edges.append((band.low_hz, band.high_hz))
     if "frequencies" in doc:
         where = ctx.child(doc, "frequencies")
         values = doc["frequencies"]
@@ -152,9 +154,10 @@ def _rows(doc, ctx):
             frequency = quantity(values, i, where, "Hz")
             labels.append(f"{frequency / 1e6:g} MHz")
             frequencies.append(frequency)
+            edges.append(None)
     if not labels:
         raise ctx.error("give bands: [...] (with region:) or frequencies: [...], or both")
-    return tuple(labels), np.array(frequencies)
+    return tuple(labels), np.array(frequencies), tuple(edges)
 
 
 def _compare_spec(doc, ctx) -> CompareSpec:
@@ -202,7 +205,7 @@ def _station_and_compare(doc, file):
     mode, duty = _mode(radio, radio_ctx)
     transmit_fraction = (number(radio, "transmit_fraction", radio_ctx, low=0, high=1) if "transmit_fraction" in radio
                          else TRANSMIT_FRACTION)
-    labels, frequency_hz = _rows(doc, ctx)
+    labels, frequency_hz, band_edges = _rows(doc, ctx)
     antenna, table_ctx, gain_dbi, measured_at, source = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file)
     outside = outside_table(antenna.frequency_hz, frequency_hz)
     if outside.any():
@@ -218,6 +221,7 @@ def _station_and_compare(doc, file):
     station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
                       frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, mode=mode,
                       duty_factor=duty, transmit_fraction=transmit_fraction, antenna_gain_dbi=gain_dbi,
+                      band_edges_hz=band_edges,
                       source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
                                  "compare": ctx.child(doc, "compare").line})

@@ -1,0 +1,67 @@
+"""Band sweeps: every band solved edge to edge, and what the SWR curves say at each end.
+
+An orchestrator beside budget.py: it builds one station whose rows are every sweep point of
+every band, solves it in one vectorised call, and splits the result per band.
+"""
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+import numpy as np
+
+from .budget import BudgetError, BudgetResult, Station, solve_budget
+from .loads import outside_table
+from .sweep import SweepStatistics, sweep_frequencies_hz, sweep_statistics
+
+
+@dataclass(frozen=True)
+class BandSweep:
+    """One row swept: its frequencies [Hz], SWR at the antenna and at the radio, and the
+    statistics of both curves (axis 0 of every statistic: 0 antenna, 1 radio; None for a row
+    of one explicit frequency)."""
+
+    label: str
+    frequency_hz: np.ndarray
+    swr_antenna: np.ndarray
+    swr_radio: np.ndarray
+    statistics: SweepStatistics | None
+    z_radio_ohm: np.ndarray | None
+
+
+def sweep_points(station: Station, points: int):
+    """Frequencies of every band row edge to edge at ``points`` points; an explicit frequency row
+    stays a single point. Returns (labels, frequency_hz, slices per row)."""
+    labels, frequencies, slices, start = [], [], [], 0
+    for label, centre, edges in zip(station.labels, station.frequency_hz, station.band_edges_hz or
+                                    (None,) * len(station.labels)):
+        f = sweep_frequencies_hz(*edges, points) if edges is not None else np.array([centre])
+        labels += [f"{label} {x / 1e6:.6g} MHz" for x in f]
+        frequencies.append(f)
+        slices.append(slice(start, start + f.size))
+        start += f.size
+    return tuple(labels), np.concatenate(frequencies), slices
+
+
+def solve_band_sweeps(station: Station, points: int) -> tuple[BudgetResult, list[BandSweep]]:
+    """Solve the station over every band edge to edge (one vectorised solve) and split per row."""
+    if points < 2:
+        raise BudgetError("a sweep needs at least 2 points per band", "bands")
+    labels, frequency_hz, slices = sweep_points(station, points)
+    table_hz = station.antenna.frequency_hz
+    outside = [label for label, edges in zip(station.labels, station.band_edges_hz or ())
+               if edges is not None and np.any(outside_table(table_hz, edges))]
+    if outside:
+        raise BudgetError(f"the band edges of {', '.join(outside)} lie outside the antenna data, which spans "
+                          f"{table_hz[0] / 1e6:g} to {table_hz[-1] / 1e6:g} MHz: a sweep never extrapolates it",
+                          "antenna")
+    result = solve_budget(dataclasses.replace(station, labels=labels, frequency_hz=frequency_hz,
+                                              band_edges_hz=(None,) * len(labels)))
+    sweeps = []
+    for label, part in zip(station.labels, slices):
+        swr = np.stack([result.swr_antenna[part], result.swr_radio[part]])
+        single = part.stop - part.start < 2  # an explicit frequency: one point, no curve
+        sweeps.append(BandSweep(label, frequency_hz[part], swr[0], swr[1],
+                                None if single else sweep_statistics(frequency_hz[part], swr),
+                                None if result.z_radio_ohm is None else result.z_radio_ohm[part]))
+    return result, sweeps
