@@ -106,6 +106,8 @@ def _export_radio(args, station, result, sweeps):
     """--radio-s1p: the impedance the radio sees, across the sweep if there is one."""
     import numpy as np
 
+    from .station import input_files
+
     if result.z_radio_ohm is None:
         raise OptionError("--radio-s1p: an antenna given by SWR alone has no phase, so no impedance at the radio")
     if sweeps:
@@ -116,9 +118,9 @@ def _export_radio(args, station, result, sweeps):
     order = np.argsort(frequency, kind="stable")
     frequency, z = frequency[order], z[order]
     keep = np.concatenate([[True], np.diff(frequency) > 0])  # a band centre may repeat a sweep point
-    inputs = [args.station[0]]
     _write_s1p(args.radio_s1p, frequency[keep], z[keep], station.reference_impedance_ohm,
-               f"impedance at the radio of {station.name}, computed by linecalc", args.force, inputs)
+               f"impedance at the radio of {station.name}, computed by linecalc", args.force,
+               input_files(station.source_file))
 
 
 def _run_budget(args) -> int:
@@ -246,12 +248,10 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
 
 
 def _run_feedpoint(args) -> int:
-    from pathlib import Path
-
     from . import report
     from .budget import BudgetError, recover_feedpoint
     from .loads import ImpedanceTable, MeasuredAntenna
-    from .station import StationError, load_station
+    from .station import StationError, input_files, load_station
 
     station = load_station(args.station)
     antenna = station.antenna
@@ -267,19 +267,13 @@ def _run_feedpoint(args) -> int:
     render = {"table": report.feedpoint_table, "json": report.feedpoint_json, "csv": report.feedpoint_csv}[args.format]
     sys.stdout.write(render(station.name, antenna.source, f, sweep))
     if args.output:
-        inputs = [Path(args.station)] + ([Path(args.station).parent / name for name in _touchstone_names(antenna)])
         _write_s1p(args.output, f, sweep.z_antenna_ohm, station.reference_impedance_ohm,
-                   f"feedpoint of {station.name}, recovered by linecalc from {antenna.source}", args.force, inputs)
+                   f"feedpoint of {station.name}, recovered by linecalc from {antenna.source}", args.force,
+                   input_files(args.station))
     if sweep.active.any():
         print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(sweep.active.sum())} points: the "
               "described path does not match the measurement there", file=sys.stderr)
     return EXIT_OK
-
-
-def _touchstone_names(antenna):
-    """The Touchstone file a measured antenna came from, as named in the station file."""
-    source = antenna.source
-    return [source.removeprefix("the sweep ")] if source.startswith("the sweep ") else []
 
 
 def _run_cables(args) -> int:

@@ -238,6 +238,22 @@ def load_station(path) -> Station:
     return load_station_and_compare(path)[0]
 
 
+def input_files(path) -> list[Path]:
+    """The files a station file reads: itself, and the Touchstone sweep its antenna names.
+
+    For outputs, which must never replace an input. A file that cannot be read or parsed names
+    only itself (loading it reports what is wrong).
+    """
+    path = Path(path)
+    try:
+        doc = load_yaml_text(path.read_text(encoding="utf-8"), path)
+    except (OSError, UnicodeDecodeError, StationError):
+        return [path]
+    antenna = doc.get("antenna") if isinstance(doc, dict) else None
+    name = antenna.get("touchstone") if isinstance(antenna, dict) else None
+    return [path] + ([path.parent / name.strip()] if isinstance(name, str) and name.strip() else [])
+
+
 def load_station_and_compare(path) -> tuple[Station, CompareSpec | None]:
     """Read and validate a station file, with what its ``compare:`` key asks (None without one)."""
     path = Path(path)
