@@ -174,6 +174,11 @@ def _distance(value, near_field_m):
     return f"{value:.1f}{' *' if value < near_field_m else ''}"
 
 
+def _watts(value):
+    """A power [W], or n/a where there is none (a row outside the exposure tables)."""
+    return f"{value:.1f}" if math.isfinite(value) else "n/a"
+
+
 def safety_table(result: BudgetResult) -> str:
     """Voltage and current maxima on each line and tuner part at PEP, exposure distances per row,
     and the cautions."""
@@ -200,7 +205,7 @@ def safety_table(result: BudgetResult) -> str:
     if x:
         missing = [math.nan] * len(result.labels)
         near = x.get("near_field_m", missing)
-        body = [[label, f"{x['power_average_w'][i]:.1f}", f"{x.get('eirp_w', missing)[i]:.1f}",
+        body = [[label, f"{x['power_average_w'][i]:.1f}", _watts(x.get("eirp_w", missing)[i]),
                  *(_distance(x.get(key, missing)[i], near[i])
                    for key in ("fcc_uncontrolled_m", "fcc_controlled_m", "icnirp_general_public_m")),
                  _distance(near[i], 0.0)]
