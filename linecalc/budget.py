@@ -162,7 +162,7 @@ def _measured_antenna(station, frequency_hz):
         against_line = deembed.antenna_range_from_reading(path, reading, z_ref, _feeding_z0(station, frequency_hz))
         if np.any(against_line.undetermined):
             rows = ", ".join(label for label, u in zip(labels, against_line.undetermined) if u)
-            raise BudgetError(f"the SWR read at {measured.source} cannot pin the antenna down on {rows}: the path "
+            raise BudgetError(f"{measured.source} cannot pin the antenna down on {rows}: the path "
                               "between them loses so much that even an open or a short at the antenna would read "
                               "as well; measure closer to the antenna", "antenna")
         load = deembed.antenna_range_from_reading(path, reading, z_ref, phase_samples=PHASE_SAMPLES).rho
@@ -215,7 +215,8 @@ def _tuner_warnings(feed, designs, labels, swr_in_by_element):
         load_swr = swr_from_rho(np.abs(rho_from_impedance(design.z_load_ohm, design.r0_ohm)))
         if load_swr.ndim > 1:
             load_swr = load_swr.max(axis=0)
-        failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input)"
+        failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
+                  f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
                   for i, label in enumerate(labels) if not matched[i]]
         if failed:
             warnings.append(f"tuner {feed[k].label} cannot match on {', '.join(failed)}; "

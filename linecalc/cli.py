@@ -136,6 +136,8 @@ def _run_budget(args) -> int:
         raise OptionError("--radio-s1p: give exactly one station")
     if args.sweep is not None and args.sweep < 2:
         raise OptionError("--sweep: at least 2 points per band")
+    if args.sweep is not None and args.format == "csv":
+        raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
     results, sweeps, failed = [], [], False
     for path in paths:
         try:
