@@ -7,9 +7,10 @@ an L or T network can match it to the reference impedance with its parts inside 
 the least tuner loss, and the largest RMS voltage on the feeder at the radio's power. Lengths are
 evaluated in chunks (``chunk_plan``) so that memory stays bounded; no loop runs per frequency.
 
-The tuner test is the full design of `linecalc.tuner` without its last resort: where no exact
-in-range setting exists the full design searches for the closest setting, the advisor calls the
-load unmatched. See `t_network_least_loss` for what that means for the answers.
+The tuner test (`linecalc.tuner_scan`) is the full design of `linecalc.tuner` without its last
+resort: where no exact in-range setting exists the full design searches for the closest setting,
+the advisor calls the load unmatched. A length the advisor calls matchable is matched by the full
+design on every frequency; see `linecalc.tuner_scan.t_network_least_loss` for the losses.
 """
 from __future__ import annotations
 
@@ -17,23 +18,20 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .tuner import MATCHED_SWR, T_SCAN_POINTS, capacitor_impedance_ohm, inductor_impedance_ohm, l_network_candidates
+from .tuner_scan import LEAST_LOSS
 
-# Largest scan (lengths x frequencies) run without an explicit override: about 2.5 s on the
-# 2-core development machine (bench/bench_advisor.py measures 1.3 million in 1.6 s).
+# Largest scan (lengths x frequencies) run without an explicit override: about 5 s for a T
+# tuner on the 2-core development machine (bench/bench_advisor.py: 1.27 million in 3.3 s).
 MAX_EVALUATIONS = 2_000_000
 # Default memory budget of one chunk [bytes].
 MEMORY_BUDGET_BYTES = 256 * 2**20
 # Peak memory of one (length, frequency) evaluation inside a chunk [bytes], by network: measured
-# with tracemalloc at 395 (T) and 1740 (L, whose 16 candidate settings are built at once), with a
+# with tracemalloc at 370 (T) and 1740 (L, whose 16 candidate settings are built at once), with a
 # margin; the tests check that a scan stays inside its budget.
 BYTES_PER_EVALUATION = {"T": 512, "L": 2048}
-# Evaluations per chunk at most: chunks whose temporaries fit the processor caches run about
-# twice as fast as chunks of a million (measured on the development machine).
+# Evaluations per chunk at most: chunks whose buffers fit the processor caches run about twice
+# as fast as chunks of half a million (measured on the development machine).
 CACHE_CHUNK_EVALUATIONS = 2**15
-# Golden-section steps that refine the T network's output capacitor between grid points; 12
-# steps bring the loss within 1e-4 dB of the full design's 48 (measured on the bench scan).
-T_REFINE_ITERATIONS = 12
 # A range that is a whole number of steps up to this relative rounding keeps its end point.
 STEP_ROUNDING = 1e-9
 
@@ -176,175 +174,6 @@ def band_scan_frequencies(bands, points_per_band=3):
     return frequency_hz, np.repeat(np.arange(len(bands)), points_per_band)
 
 
-def _swr_at_most(z_load, r0_ohm, swr):
-    """Where the SWR of ``z_load`` against ``r0_ohm`` is at most ``swr`` (|rho| <= (s-1)/(s+1))."""
-    return np.abs(z_load - r0_ohm) <= (swr - 1) / (swr + 1) * np.abs(z_load + r0_ohm)
-
-
-def _t_loss_ratio(c2_f, inv_omega, r_load, x_load, r0_ohm, parts, limits):
-    """P_in / P_load of the least-loss matched T with output capacitor ``c2_f``; inf where none.
-
-    The output capacitor turns the load into z2 (admittance y2 = g - j b); the input
-    capacitor and the shunt inductor are an L section (series part toward the input) in closed
-    form with the losses, the quadratic that `linecalc.tuner` solves: Re((1 - j/Q_C) /
-    (y2 + u k)) = R0 for the shunt admittance u k, k = 1/(1/Q_L + j), written out in real
-    arithmetic. A root counts where the inductance 1/(omega u) and the series reactance
-    -Im(1/(y2 + u k)) give parts in range (``limits``: bounds of u and of that reactance). The
-    input is then exactly R0, so with 1 A in the load P_in / P_load = R0 |1 + u k z2|^2 / R_load.
-    """
-    u_low, u_high, x_low, x_high = limits
-    inv_qc = 1 / parts.capacitor_q
-    k = 1 / (1 / parts.inductor_q + 1j)
-    kr, ki = k.real, k.imag
-    a2 = r0_ohm * abs(k) ** 2
-    x_c2 = inv_omega * (1.0 / c2_f)
-    z2r, z2i = r_load + x_c2 * inv_qc, x_load - x_c2
-    inv_m2 = 1.0 / (z2r * z2r + z2i * z2i)
-    g, b = z2r * inv_m2, z2i * inv_m2
-    a1 = (2 * r0_ohm * kr) * g - (2 * r0_ohm * ki) * b - (kr - ki * inv_qc)
-    a0 = r0_ohm * inv_m2 - g - b * inv_qc
-    discriminant = a1 * a1 - (4 * a2) * a0
-    real = discriminant >= 0
-    # the cancellation-free roots of Press et al., Numerical Recipes, 3rd ed., section 5.6
-    q = -0.5 * (a1 + np.copysign(np.sqrt(np.where(real, discriminant, 0.0)), a1))
-    pr, pi = kr * z2r - ki * z2i, kr * z2i + ki * z2r  # k z2
-    p2 = pr * pr + pi * pi
-    best = np.full(np.shape(q), np.inf)
-    for u in (q * (1 / a2), np.divide(a0, q, out=np.zeros_like(q), where=q != 0)):
-        wr, wi = g + u * kr, u * ki - b  # y2 + u k
-        mw = wr * wr + wi * wi
-        # series reactance wi / mw within [x_low, x_high], multiplied through by mw > 0
-        ok = real & (u >= u_low) & (u <= u_high) & (wi >= x_low * mw) & (wi <= x_high * mw)
-        ratio = 1 + u * (2 * pr + u * p2)
-        best = np.where(ok & (ratio < best), ratio, best)
-    return best * (r0_ohm / r_load)
-
-
-def t_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
-    """Least loss of a high-pass T network (series C, shunt L, series C) that matches the load.
-
-    Parameters
-    ----------
-    frequency_hz : array_like
-        Frequency [Hz]; broadcasts with ``z_load_ohm``.
-    z_load_ohm : array_like of complex
-        Impedance at the tuner's output [ohm].
-    r0_ohm : float
-        Reference resistance at its input [ohm].
-    parts : linecalc.tuner.TunerParts
-
-    Returns
-    -------
-    loss_db : ndarray
-        10 log10(P_in / P_load) of the least-loss setting found [dB]; inf where none matches.
-    matched : ndarray of bool
-        Where an in-range matched setting (or the bypass, when the load is already matched to
-        ``MATCHED_SWR``) exists.
-    output_capacitance_f : ndarray
-        The output capacitor of that setting [F] (the other two parts follow in closed form);
-        NaN where unmatched or bypassed.
-
-    Notes
-    -----
-    The scan of `linecalc.tuner.design_t_network`: the output capacitor on the same
-    ``T_SCAN_POINTS`` log-spaced values, the other two parts in closed form; then a golden-section
-    refinement of ``T_REFINE_ITERATIONS`` steps (one evaluation each) between the best value's
-    grid neighbours, where the full design takes 48. The full design's last resort, a search for
-    the closest setting where no grid value matches, is left out. So a load this function calls
-    matched is matched by the full design (the same grid value matches there), while a load the
-    full design rescues by its search counts as unmatched here. The loss is that of a real
-    in-range setting, the least of every value the scan and the refinement meet: at most 1e-3 dB
-    above the full design's, and sometimes below it (by up to 0.4 dB for extreme loads, in
-    trials) where the bracket is not unimodal and the full design's golden section settles on
-    its worse part.
-
-    References
-    ----------
-    Pozar, Microwave Engineering, 4th ed., section 5.1 (lumped-element L networks);
-    Press et al., Numerical Recipes, 3rd ed., section 10.2 (golden-section search).
-    """
-    f, z = np.broadcast_arrays(np.asarray(frequency_hz, dtype=float), np.asarray(z_load_ohm, dtype=complex))
-    inv_omega = 1 / (2 * np.pi * f)
-    r_load, x_load = z.real, z.imag
-    positive = r_load > 0  # no network delivers power into a pure reactance
-    r_load = np.where(positive, r_load, 1.0)  # stand-in, masked out below
-    limits = (inv_omega / parts.inductance_max_h, inv_omega / parts.inductance_min_h,
-              -inv_omega / parts.capacitance_min_f, -inv_omega / parts.capacitance_max_f)
-    # every value of the full design's grid: a matching range of the output capacitor can be
-    # narrower than one step (a coarser grid lost whole windows in trials)
-    grid = np.log(np.geomspace(parts.capacitance_min_f, parts.capacitance_max_f, T_SCAN_POINTS))
-    best, best_log_c2 = np.full(f.shape, np.inf), np.full(f.shape, np.nan)
-
-    def evaluate(log_c2):
-        """The loss ratio at ``log_c2``, remembered where it beats the best so far."""
-        nonlocal best, best_log_c2
-        ratio = _t_loss_ratio(np.exp(log_c2), inv_omega, r_load, x_load, r0_ohm, parts, limits)
-        better = ratio < best
-        best, best_log_c2 = np.where(better, ratio, best), np.where(better, log_c2, best_log_c2)
-        return ratio
-
-    for log_c2 in grid:
-        evaluate(log_c2)
-    found = np.isfinite(best)
-    index = np.searchsorted(grid, np.where(found, best_log_c2, grid[0]))
-    low, high = grid[np.maximum(index - 1, 0)], grid[np.minimum(index + 1, grid.size - 1)]
-    inv_phi = (np.sqrt(5) - 1) / 2
-    x1, x2 = high - inv_phi * (high - low), low + inv_phi * (high - low)
-    f1, f2 = evaluate(x1), evaluate(x2)
-    for _ in range(T_REFINE_ITERATIONS):
-        left = f1 <= f2  # the minimum lies in [low, x2]: x1 becomes the new x2
-        low, high = np.where(left, low, x1), np.where(left, x2, high)
-        x1, x2 = high - inv_phi * (high - low), low + inv_phi * (high - low)
-        fresh = evaluate(np.where(left, x1, x2))
-        f1, f2 = np.where(left, fresh, f2), np.where(left, f1, fresh)
-    bypass = positive & _swr_at_most(z, r0_ohm, MATCHED_SWR)
-    best = np.where(bypass, 1.0, np.where(positive, best, np.inf))
-    matched = np.isfinite(best)
-    output_capacitance_f = np.where(matched & ~bypass, np.exp(best_log_c2), np.nan)
-    return 10 * np.log10(best), matched, output_capacitance_f
-
-
-def l_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
-    """Least loss of an L network that matches the load, from its exact lossy settings.
-
-    Parameters as for `t_network_least_loss`; returns ``loss_db`` and ``matched`` as it does.
-
-    Notes
-    -----
-    Every setting of `linecalc.tuner.l_network_candidates` and the bypass, each driven with the
-    load: with 1 A in the load, a shunt part adds V/Z to the current and a series part adds Z I
-    to the voltage; loss 10 log10(Re(V I*) / Re(z_load)), kept where the input SWR is at most
-    ``MATCHED_SWR``. This is `linecalc.tuner.design_l_network` without its closest-setting
-    search: matched here means matched there, and the loss is the same.
-
-    References
-    ----------
-    Pozar, Microwave Engineering, 4th ed., section 5.1 (lumped-element L networks) and
-    section 4.4 (chain matrices of series and shunt elements).
-    """
-    f, z = np.broadcast_arrays(np.asarray(frequency_hz, dtype=float), np.asarray(z_load_ohm, dtype=complex))
-    positive = z.real > 0
-    z_safe = np.where(positive, z, 1.0)  # stand-in, masked out below
-    best = np.where(positive & _swr_at_most(z, r0_ohm, MATCHED_SWR), 1.0, np.inf)
-    for candidate in l_network_candidates(f, z_safe, r0_ohm, parts):
-        values = candidate.component_values
-        present = np.all([~np.isnan(v) for v in values.values()], axis=0)
-        v, i = z_safe, np.ones_like(z_safe)
-        # drive from the load toward the input: output shunt, series part, input shunt
-        for name in sorted(values, key=lambda n: (not n.startswith("output"), not n.startswith("series"))):
-            value = np.where(present, values[name], 1.0)  # stand-in where absent
-            impedance = (inductor_impedance_ohm(f, value, parts.inductor_q) if name.endswith("_h")
-                         else capacitor_impedance_ohm(f, value, parts.capacitor_q))
-            v, i = (v + impedance * i, i) if name.startswith("series") else (v, i + v / impedance)
-        ok = present & positive & _swr_at_most(v / i, r0_ohm, MATCHED_SWR)
-        ratio = (v * i.conj()).real / z_safe.real
-        best = np.where(ok & (ratio < best), ratio, best)
-    return 10 * np.log10(best), np.isfinite(best)
-
-
-_LEAST_LOSS = {"T": lambda *args: t_network_least_loss(*args)[:2], "L": l_network_least_loss}
-
-
 def feeder_peak_voltage(gamma_per_m, length_m, rho_in, forward_in_v):
     """Largest RMS voltage magnitude along a line, from the waves at its input.
 
@@ -445,7 +274,7 @@ def _check_inputs(frequency_hz, z_antenna_ohm, network, radio_power_w, r0_ohm, f
         raise AdvisorInputError("frequency_hz must be a non-empty 1-D array of positive, finite frequencies")
     if z.shape != f.shape or not np.all(np.isfinite(z) & (z.real >= 0)):
         raise AdvisorInputError("z_antenna_ohm must be finite with a resistance of zero or more, one per frequency")
-    if network not in _LEAST_LOSS:
+    if network not in LEAST_LOSS:
         raise AdvisorInputError(f"the advisor designs an 'L' or a 'T' network, got {network!r}")
     if not (np.isfinite(radio_power_w) and radio_power_w > 0):
         raise AdvisorInputError(f"radio power must be positive and finite, got {radio_power_w}")
@@ -463,6 +292,39 @@ def _cascade(abcd_list, v, i):
     for abcd in reversed(abcd_list):
         v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
     return v, i
+
+
+def feeder_waves(z0_ohm, gamma_per_m, length_m, rho_out, abcd_tuner_to_feeder=()):
+    """The feeder's input reflection and the state at the tuner's output, per 1 V forward wave.
+
+    Parameters
+    ----------
+    z0_ohm, gamma_per_m : ndarray of complex, shape (nf,)
+        The feeder's characteristic impedance [ohm] and propagation constant [1/m].
+    length_m : ndarray, shape (..., 1) or broadcastable with (nf,)
+        Feeder lengths [m].
+    rho_out : ndarray of complex, shape (nf,)
+        Reflection coefficient of what the feeder drives, against ``z0_ohm`` [1].
+    abcd_tuner_to_feeder : sequence of ndarray, each (nf, 2, 2)
+        Fixed chain matrices between the tuner and the feeder, from the tuner side.
+
+    Returns
+    -------
+    rho_in : ndarray of complex
+        rho_out e^(-2 gamma l) [1].
+    voltage_v, current_a : ndarray of complex
+        At the tuner's output with a forward wave of 1 V at the feeder's input:
+        V = 1 + rho_in, I = (1 - rho_in) / Z0 there, carried through the fixed chain matrices.
+        The tuner sees V / I.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., sections 2.3 and 2.7 (reflection along a lossy line),
+    4.4 (chain matrices).
+    """
+    rho_in = rho_out * np.exp(-2 * gamma_per_m * length_m)
+    voltage_v, current_a = _cascade(list(abcd_tuner_to_feeder), 1 + rho_in, (1 - rho_in) / z0_ohm)
+    return rho_in, voltage_v, current_a
 
 
 def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v):
@@ -508,7 +370,7 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     parts : linecalc.tuner.TunerParts
         Ranges and Qs of the tuner's parts.
     network : {'T', 'L'}
-        The tuner's network (see `t_network_least_loss`, `l_network_least_loss`).
+        The tuner's network (see `linecalc.tuner_scan`).
     r0_ohm : float
         Reference impedance the tuner matches to [ohm].
     radio_power_w : float
@@ -565,7 +427,7 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     z0, gamma = cable.constants(f)
     v_out, i_out = _cascade(list(abcd_feeder_to_antenna), z_antenna, np.ones_like(z_antenna))
     rho_out = (v_out - z0 * i_out) / (v_out + z0 * i_out)
-    least_loss = _LEAST_LOSS[network]
+    least_loss = LEAST_LOSS[network]
 
     worst_loss = np.full(length_m.size, np.nan)
     worst_voltage = np.full(length_m.size, np.nan)
@@ -574,8 +436,7 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     unmatched = np.zeros(length_m.size, dtype=int)
     for start in range(0, length_m.size, chunk):
         lengths = length_m[start:start + chunk, None]
-        rho_in = rho_out * np.exp(-2 * gamma * lengths)                    # (chunk, nf)
-        v_t, i_t = _cascade(list(abcd_tuner_to_feeder), 1 + rho_in, (1 - rho_in) / z0)
+        rho_in, v_t, i_t = feeder_waves(z0, gamma, lengths, rho_out, abcd_tuner_to_feeder)  # (chunk, nf)
         loss_db, matched = least_loss(f, v_t / i_t, r0_ohm, parts)
         # power into the tuner per 1 V forward wave; a stand-in where unmatched (masked below)
         power_in = np.where(matched, (v_t * i_t.conj()).real * 10 ** (np.where(matched, loss_db, 0.0) / 10), 1.0)

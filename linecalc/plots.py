@@ -24,11 +24,16 @@ FORMATS = (".png", ".svg")
 _RC = {"font.size": 11, "axes.titlesize": 12, "axes.labelsize": 11, "legend.fontsize": 10,
        "xtick.labelsize": 10, "ytick.labelsize": 10, "figure.titlesize": 13, "svg.hashsalt": "linecalc"}
 # Colour-blind-safe palette (Okabe and Ito, Color Universal Design, 2008), then matplotlib's.
-_COLOURS = ("#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#F0E442", "#000000",
-            "#1f77b4", "#ff7f0e", "#2ca02c", "#d62728", "#9467bd", "#8c564b")
+# The palette's yellow is left out: too pale on white.
+_COLOURS = ("#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#000000",
+            "#d62728", "#9467bd", "#8c564b", "#7f7f7f", "#bcbd22", "#17becf")
 # Smith-chart grid: constant resistance circles and constant reactance arcs (normalised).
-SMITH_R = (0.0, 0.2, 0.5, 1.0, 2.0, 5.0)
+SMITH_R = (0.2, 0.5, 1.0, 2.0, 5.0)  # r = 0 is the rim
 SMITH_X = (0.2, 0.5, 1.0, 2.0, 5.0)
+# Smallest angle between two point labels around a Smith chart [rad] (about 9 degrees).
+SMITH_LABEL_GAP = 0.16
+# Bottom of the SWR axis: 1 is the least SWR, the axis starts just below it.
+SWR_AXIS_BOTTOM = 0.93
 VOLTAGE_CAUTION = ("RMS volts; peaks are 1.41 times higher. Lines at high SWR carry voltages that arc, burn "
                    "and can kill: keep clear while transmitting.")
 
@@ -123,7 +128,12 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
                                             (("frequency_hz", frequency_hz), ("swr_antenna", swr_antenna),
                                              ("swr_radio", swr_radio)))
     with _rc():
-        from matplotlib.ticker import FixedLocator, MaxNLocator, NullLocator, ScalarFormatter
+        from matplotlib.ticker import (
+            FixedLocator,
+            FuncFormatter,
+            MaxNLocator,
+            NullLocator,
+        )
 
         columns = min(count, 4)
         rows = -(-count // columns)
@@ -139,9 +149,9 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
             ax.plot(mhz, swr_antenna[n], color=_colour(0), linewidth=2, label="at the antenna")
             ax.plot(mhz, swr_radio[n], color=_colour(1), linewidth=2, linestyle="--", label="at the radio")
             ax.set_yscale("log")
-            ax.set_ylim(1.0, top)
+            ax.set_ylim(SWR_AXIS_BOTTOM, top)  # a little below 1 so that a matched curve shows
             ax.yaxis.set_major_locator(FixedLocator(ticks))
-            ax.yaxis.set_major_formatter(ScalarFormatter())
+            ax.yaxis.set_major_formatter(FuncFormatter(lambda value, _: f"{value:g}"))
             ax.yaxis.set_minor_locator(NullLocator())
             ax.xaxis.set_major_locator(MaxNLocator(3))
             ax.grid(True, alpha=0.3)
@@ -202,7 +212,7 @@ def loss_shares(result) -> LossShares:
 
 
 def _stacked(ax, labels, values, categories):
-    """Stacked bars, positive shares upward from 0 and negative shares downward."""
+    """Stacked bars, positive shares upward from 0 and negative shares downward; returns the tops."""
     x = np.arange(len(labels))
     up, down = np.zeros(len(labels)), np.zeros(len(labels))
     for n, (name, heights) in enumerate(zip(categories, values)):
@@ -212,7 +222,7 @@ def _stacked(ax, labels, values, categories):
     ax.set_xticks(x, labels)
     ax.axhline(0, color="black", linewidth=0.8)
     ax.grid(True, axis="y", alpha=0.3)
-    return up + down
+    return up  # the top of each stack
 
 
 def plot_loss_budget(path, result, *, force=False):
@@ -239,7 +249,9 @@ def plot_loss_budget(path, result, *, force=False):
     with _rc():
         figure, axes = _figure(2, 1, sharex=True)
         db_ax, w_ax = axes[:, 0]
-        _stacked(db_ax, labels, shares.loss_db, shares.categories)
+        db_tops = _stacked(db_ax, labels, shares.loss_db, shares.categories)
+        if np.max(db_tops) > 0:
+            db_ax.set_ylim(top=1.1 * float(np.max(db_tops)))
         db_ax.set_ylabel("loss [dB]")
         db_ax.set_title(f"Where the loss goes: {result.station}", loc="left")
         totals = _stacked(w_ax, labels, shares.heat_w, shares.categories)
@@ -247,11 +259,13 @@ def plot_loss_budget(path, result, *, force=False):
         w_ax.set_title(f"Heat from {result.radio_power_w:g} W at the radio; watts at the antenna above each bar",
                        loc="left")
         for x, (total, delivered) in enumerate(zip(totals, result.power_antenna_w)):
-            w_ax.annotate(f"{delivered:.0f} W", (x, max(total, 0.0)), xytext=(0, 3), textcoords="offset points",
+            w_ax.annotate(f"{delivered:.3g} W", (x, max(total, 0.0)), xytext=(0, 3), textcoords="offset points",
                           ha="center", va="bottom", fontsize=10)
-        w_ax.set_ylim(top=max(float(np.max(totals)), 0.0) * 1.2 + 1e-3 * result.radio_power_w)
+        # room for the labels: a fifth above the highest bar (a hundredth of the power if none)
+        highest = float(np.max(totals))
+        w_ax.set_ylim(top=1.2 * highest if highest > 0 else 0.01 * result.radio_power_w)
         w_ax.set_xlabel("band")
-        db_ax.legend(loc="upper left", ncols=4)
+        figure.legend(*db_ax.get_legend_handles_labels(), loc="outside upper center", ncols=4)
         return _save(figure, path, force)
 
 
@@ -259,24 +273,50 @@ def _smith_grid(ax):
     """Constant-r circles and constant-x arcs of the normalised impedance z = r + jx in the
     reflection plane rho = (z - 1)/(z + 1) (Pozar, Microwave Engineering, 4th ed., section 2.4)."""
     t = np.linspace(0, 2 * np.pi, 361)
-    style = dict(color="0.7", linewidth=0.7)
+    style = {"color": "0.7", "linewidth": 0.7}
     for r in SMITH_R:
         centre, radius = r / (1 + r), 1 / (1 + r)
-        ax.plot(centre + radius * np.cos(t), radius * np.sin(t), **style)
-        if r > 0:
-            ax.annotate(f"{r:g}", (centre - radius, 0), xytext=(2, 2), textcoords="offset points",
-                        fontsize=10, color="0.35")
-    ax.plot(np.cos(t), np.sin(t), color="0.3", linewidth=1.2)
+        ax.plot(centre + radius * np.cos(t), radius * np.sin(t), gid=f"smith-r-{r:g}", **style)
+        ax.annotate(f"{r:g}", (centre - radius, 0), xytext=(2, -3), textcoords="offset points",
+                    ha="left", va="top", fontsize=10, color="0.35")
+    ax.plot(np.cos(t), np.sin(t), color="0.3", linewidth=1.2, gid="smith-rim")
     resistance = np.concatenate([[0.0], np.geomspace(1e-3, 1e3, 300)])
     for x in SMITH_X:
         for sign in (1, -1):
             z = resistance + 1j * sign * x
             rho = (z - 1) / (z + 1)
-            ax.plot(rho.real, rho.imag, **style)
-            edge = (1j * sign * x - 1) / (1j * sign * x + 1)
-            ax.annotate(f"{sign * x:+g}j", (edge.real, edge.imag), xytext=(6 * edge.real, 6 * edge.imag),
-                        textcoords="offset points", ha="center", va="center", fontsize=10, color="0.35")
+            ax.plot(rho.real, rho.imag, gid=f"smith-x-{sign * x:+g}", **style)
+            edge = (1j * sign * x - 1) / (1j * sign * x + 1)  # where the arc meets the rim
+            ax.annotate(f"{sign * x:+g}j", (0.9 * edge.real, 0.9 * edge.imag), ha="center", va="center",
+                        fontsize=10, color="0.35")
     ax.plot([-1, 1], [0, 0], **style)
+
+
+def _spread_angles(angles, gap):
+    """Label angles near ``angles`` [rad] at least ``gap`` apart (neighbours pushed apart evenly)."""
+    order = np.argsort(angles)
+    spread = np.array(angles, dtype=float)[order]
+    for _ in range(200):
+        deficit = gap - np.diff(spread)
+        if np.all(deficit <= 1e-9):
+            break
+        push = np.where(deficit > 0, deficit / 2, 0.0)
+        spread[:-1] -= push
+        spread[1:] += push
+    out = np.empty_like(spread)
+    out[order] = spread
+    return out
+
+
+def _label_around(ax, rho, labels):
+    """Each label outside the chart's rim, near its point's direction, with a leader line."""
+    angles = _spread_angles(np.angle(rho), SMITH_LABEL_GAP)
+    for point, angle, label in zip(rho, angles, labels):
+        anchor, text = 1.06 * np.exp(1j * angle), 1.1 * np.exp(1j * angle)
+        ax.plot([point.real, anchor.real], [point.imag, anchor.imag], color="0.45", linewidth=0.7)
+        ha = "left" if np.cos(angle) > 0.3 else "right" if np.cos(angle) < -0.3 else "center"
+        va = "bottom" if np.sin(angle) > 0.3 else "top" if np.sin(angle) < -0.3 else "center"
+        ax.annotate(label, (text.real, text.imag), ha=ha, va=va, fontsize=10)
 
 
 def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, force=False):
@@ -293,7 +333,8 @@ def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, forc
         Reference impedance of the chart [ohm].
     labels : sequence of str or None
         One per point: the points are markers, the antenna's labelled, each joined to its radio
-        point by a thin line. None: the points are a sweep, drawn as two curves.
+        point by a dotted line; the labels sit outside the rim, joined to their points. None: the
+        points are a sweep, drawn as two curves, each with a dot at its first point.
     force : bool
         Overwrite an existing file.
 
@@ -316,18 +357,20 @@ def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, forc
         _smith_grid(ax)
         if labels is not None:
             for a, r in zip(rho_antenna, rho_radio):
-                ax.plot([a.real, r.real], [a.imag, r.imag], color="0.55", linewidth=0.8, linestyle=":")
-            for a, label in zip(rho_antenna, labels):
-                ax.annotate(label, (a.real, a.imag), xytext=(6, 6), textcoords="offset points", fontsize=10)
-            style_antenna, style_radio = dict(linestyle="none", marker="o", markersize=8), \
-                dict(linestyle="none", marker="s", markersize=7, markerfacecolor="white", markeredgewidth=2)
+                ax.plot([a.real, r.real], [a.imag, r.imag], color=_colour(5), linewidth=0.8, linestyle=":")
+            _label_around(ax, rho_antenna, labels)
+            style_antenna = {"linestyle": "none", "marker": "o", "markersize": 8}
+            style_radio = {"linestyle": "none", "marker": "s", "markersize": 7, "markerfacecolor": "white",
+                           "markeredgewidth": 2}
         else:
-            style_antenna, style_radio = dict(linewidth=2), dict(linewidth=2, linestyle="--")
+            # a dot marks where each curve starts (the first frequency)
+            style_antenna = {"linewidth": 2, "marker": "o", "markevery": [0]}
+            style_radio = {"linewidth": 2, "linestyle": "--", "marker": "o", "markevery": [0]}
         ax.plot(rho_antenna.real, rho_antenna.imag, color=_colour(0), label="at the antenna", **style_antenna)
         ax.plot(rho_radio.real, rho_radio.imag, color=_colour(5), label="at the radio", **style_radio)
         ax.set_aspect("equal")
-        ax.set_xlim(-1.15, 1.15)
-        ax.set_ylim(-1.15, 1.15)
+        ax.set_xlim(-1.32, 1.32)
+        ax.set_ylim(-1.25, 1.25)
         ax.set_xlabel(f"Re ρ [1], ρ = (Z − {z_ref_ohm:g} Ω)/(Z + {z_ref_ohm:g} Ω)")
         ax.set_ylabel("Im ρ [1]")
         ax.set_title(f"Impedance on a Smith chart, normalised to {z_ref_ohm:g} Ω (circles: r, arcs: x)")
