@@ -49,6 +49,33 @@ def build_parser() -> argparse.ArgumentParser:
     feedpoint.add_argument("--output", metavar="FILE.s1p", help="also write the feedpoint sweep as a Touchstone file")
     feedpoint.add_argument("--force", action="store_true", help="overwrite an existing --output file")
 
+    advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band")
+    advise.add_argument("station", help="station file with a tuner on the radio side of its feeder")
+    advise.add_argument("--line", metavar="LABEL", help="the feeder to cut (default: the longest line)")
+    advise.add_argument("--from", dest="length_from", default="5 m", metavar="LENGTH",
+                        help="shortest length to try (default: 5 m)")
+    advise.add_argument("--to", dest="length_to", default="60 m", metavar="LENGTH",
+                        help="longest length to try (default: 60 m)")
+    advise.add_argument("--step", default="1 cm", metavar="LENGTH", help="length step (default: 1 cm)")
+    advise.add_argument("--points", type=int, default=3, metavar="N",
+                        help="points per band, edges included (default: 3, the edges and the centre)")
+    advise.add_argument("--allow-large-scan", action="store_true",
+                        help="allow more than 2,000,000 length x frequency evaluations")
+    advise.add_argument("--max-loss", type=float, metavar="DB",
+                        help="count only lengths whose worst-case tuner loss is at most DB dB (default: no limit)")
+    advise.add_argument("--top", type=int, default=8, metavar="N", help="windows to list (default: 8)")
+    advise.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+
+    plot = commands.add_parser("plot", help="draw a station: SWR across each band, loss budget, Smith chart, "
+                               "voltage along the feedline, or a comparison")
+    plot.add_argument("station", help="station file (YAML)")
+    plot.add_argument("kind", choices=("swr", "budget", "smith", "voltage", "compare"), help="what to draw")
+    plot.add_argument("output", metavar="FILE", help="the image to write, .png or .svg")
+    plot.add_argument("--sweep", type=int, default=DEFAULT_SWEEP_POINTS, metavar="N",
+                      help=f"points per band for swr and smith (default {DEFAULT_SWEEP_POINTS})")
+    plot.add_argument("--line", metavar="LABEL", help="the line for voltage (default: the longest)")
+    plot.add_argument("--force", action="store_true", help="overwrite an existing image")
+
     compare = commands.add_parser("compare", help="rank alternatives band by band: other feedlines, tuner "
                                   "positions, other lengths of a line")
     compare.add_argument("station", help="station file (YAML); its compare: key may list the alternatives")
@@ -278,6 +305,85 @@ def _run_feedpoint(args) -> int:
     return EXIT_OK
 
 
+class _Progress:
+    """Progress of a long scan on stderr: a bar on a terminal, a few plain lines otherwise, and
+    nothing at all for a run shorter than about a second."""
+
+    DELAY_S = 1.0
+
+    def __init__(self, label):
+        import time
+
+        self.label, self.start, self.clock, self.shown = label, time.monotonic(), time.monotonic, -1
+
+    def __call__(self, done, total):
+        if self.clock() - self.start < self.DELAY_S:
+            return
+        percent = int(100 * done / total)
+        if sys.stderr.isatty():
+            bar = "#" * (percent // 4)
+            print(f"\r{self.label} [{bar:<25}] {percent:3d} %", end="" if done < total else "\n",
+                  file=sys.stderr, flush=True)
+        elif percent // 25 > self.shown // 25:
+            print(f"{self.label}: {percent} %", file=sys.stderr, flush=True)
+        self.shown = percent
+
+
+def _length_option(name, text):
+    from .units import UnitError, parse_quantity
+
+    try:
+        return parse_quantity(text, "m")
+    except UnitError as exc:
+        raise OptionError(f"{name}: {exc}") from None
+
+
+def _run_advise(args) -> int:
+    from . import report
+    from .advice import advise_station
+    from .advisor import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
+    from .budget import BudgetError
+    from .station import StationError, load_station
+
+    low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
+    step = _length_option("--step", args.step)
+    station = load_station(args.station)
+    try:
+        advice, f, rows = advise_station(station, args.line, low, high, step, points_per_band=args.points,
+                                         allow_large_scan=args.allow_large_scan, progress=_Progress("scanning"),
+                                         max_loss_db=args.max_loss)
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+    except LengthRangeError as exc:
+        raise OptionError(f"--from/--to: {exc}") from None
+    except StepError as exc:
+        raise OptionError(f"--step: {exc}") from None
+    except ScanTooLarge as exc:
+        raise OptionError(f"--step: {exc} (--allow-large-scan)") from None
+    except AdvisorInputError as exc:
+        raise OptionError(f"--points: {exc}") from None
+    render = report.advice_json if args.format == "json" else report.advice_table
+    sys.stdout.write(render(station, advice, args.top))
+    return EXIT_OK
+
+
+def _run_plot(args) -> int:
+    from . import figures
+    from .budget import BudgetError
+    from .station import StationError, load_station_and_compare
+
+    station, spec = load_station_and_compare(args.station)
+    try:
+        figures.draw(args.kind, station, spec, args.output, sweep_points=args.sweep, line_label=args.line,
+                      force=args.force)
+    except BudgetError as exc:
+        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+    except figures.PlotProblem as exc:
+        raise OptionError(str(exc)) from None
+    print(f"wrote {args.output}", file=sys.stderr)
+    return EXIT_OK
+
+
 def _run_cables(args) -> int:
     import json
 
@@ -305,7 +411,8 @@ def main(argv=None) -> int:
 
     try:
         return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
-                "compare": _run_compare, "cables": _run_cables}[args.command](args)
+                "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
+                "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT

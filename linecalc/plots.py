@@ -139,8 +139,10 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
         rows = -(-count // columns)
         figure, axes = _figure(rows, columns)
         finite = np.concatenate([s[np.isfinite(s)] for s in swr_antenna + swr_radio] + [np.array([2.0])])
-        top = max(2.0, float(finite.max()) * 1.15)
-        ticks = [t for t in (1, 1.5, 2, 3, 5, 10, 20, 50, 100, 200, 500) if t <= top]
+        steps = (1, 1.5, 2, 3, 5, 10, 20, 50, 100, 200, 500)
+        # the axis ends on the first tick above the data, so that the top of every curve is labelled
+        top = next((t for t in steps if t >= float(finite.max()) * 1.05), float(finite.max()) * 1.15)
+        ticks = [t for t in steps if t <= top]
         for n, ax in enumerate(axes.flat):
             if n >= count:
                 ax.set_visible(False)

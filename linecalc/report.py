@@ -405,3 +405,53 @@ def sweep_document(sweep) -> dict:
 
 def _json_list(values):
     return [_finite_or_none(v) for v in np.ravel(values)]
+
+
+def _window_rows(windows, top):
+    return [[f"{w.start_m:.2f}{' <' if w.at_range_start else ''}", f"{w.end_m:.2f}{' >' if w.at_range_end else ''}",
+             f"{w.width_m:.2f}", f"{w.best_length_m:.2f}", f"{w.best_tuner_loss_db:.2f}",
+             f"{w.worst_tuner_loss_db:.2f}", f"{w.worst_voltage_v:.0f}"] for w in windows[:top]]
+
+
+def advice_table(station, advice, top) -> str:
+    """The length windows where the tuner matches on every band, by loss and by line voltage."""
+    lengths = advice.length_m
+    share = 100 * advice.matchable.mean()
+    limit = sum(w.end_m - w.start_m for w in advice.windows)
+    headers = ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
+    lines = [f"{station.name}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
+             f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
+             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} windows "
+             f"({limit:.2f} m in all) meet the conditions.",
+             ""]
+    if advice.windows:
+        lines += [f"Windows by worst-case tuner loss (the best {min(top, len(advice.windows))}):",
+                  tabulate(_window_rows(advice.windows, top), headers=headers, disable_numparse=True, stralign="right"),
+                  "", f"Windows by worst-case voltage on the feeder at {advice.radio_power_w:g} W PEP:",
+                  tabulate(_window_rows(advice.windows_by_voltage, top), headers=headers, disable_numparse=True,
+                           stralign="right"),
+                  "", "< or >: the window reaches the end of the scan and may go on beyond it.",
+                  "Pick a length inside a wide window: real antennas and lines differ from their models."]
+    else:
+        lines.append("No length in the range lets the tuner match on every band: widen the range, change the "
+                     "tuner's ranges or drop a band.")
+    lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."]
+    return "\n".join(lines) + "\n"
+
+
+def advice_json(station, advice, top) -> str:
+    def window(w):
+        return {"start_m": w.start_m, "end_m": w.end_m, "best_length_m": w.best_length_m,
+                "best_tuner_loss_db": _finite_or_none(w.best_tuner_loss_db),
+                "worst_tuner_loss_db": _finite_or_none(w.worst_tuner_loss_db),
+                "worst_voltage_v": _finite_or_none(w.worst_voltage_v),
+                "at_range_start": w.at_range_start, "at_range_end": w.at_range_end}
+
+    return to_json({"station": station.name, "network": advice.network,
+                    "length_m": {"from": float(advice.length_m[0]), "to": float(advice.length_m[-1]),
+                                 "count": int(advice.length_m.size)},
+                    "frequency_hz": [float(f) for f in advice.frequency_hz],
+                    "matchable_fraction": float(advice.matchable.mean()),
+                    "windows": [window(w) for w in advice.windows],
+                    "windows_by_voltage": [window(w) for w in advice.windows_by_voltage[:top]],
+                    "cautions": list(CAUTIONS)})

@@ -1,0 +1,81 @@
+"""The length advisor run on a station: which lengths of its feeder let its tuner match on every
+band. Orchestration only; the scan itself is `advisor.advise_length`.
+"""
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+
+from .advisor import LengthAdvice, advise_length, find_windows
+from .budget import BudgetError, Station
+from .compare import CompareError, main_line_index
+from .loads import ImpedanceTable, outside_table
+
+# Points per band row for the scan: both edges and the centre.
+POINTS_PER_BAND = 3
+
+
+def scan_frequencies(station: Station, points_per_band=POINTS_PER_BAND):
+    """Frequencies standing for every row: a band's edges and points between; an explicit
+    frequency as itself. Returns (frequency_hz, row index of each)."""
+    frequencies, rows = [], []
+    for k, (centre, edges) in enumerate(zip(station.frequency_hz, station.band_edges_hz or
+                                            (None,) * len(station.labels))):
+        f = np.linspace(*edges, points_per_band) if edges is not None else np.array([centre])
+        frequencies.append(f)
+        rows.append(np.full(f.size, k))
+    return np.concatenate(frequencies), np.concatenate(rows)
+
+
+def within_loss(advice: LengthAdvice, max_loss_db) -> LengthAdvice:
+    """The advice with its windows cut to the lengths whose worst-case tuner loss is at most
+    ``max_loss_db`` [dB] (where the tuner matches everywhere, a window may span the whole scan;
+    a loss limit shows where the tuner works least hard)."""
+    good = advice.matchable & (advice.worst_tuner_loss_db <= max_loss_db)
+    windows = find_windows(advice.length_m, good, advice.worst_tuner_loss_db, advice.worst_voltage_v)
+    return dataclasses.replace(
+        advice, windows=tuple(sorted(windows, key=lambda w: (w.worst_tuner_loss_db, w.worst_voltage_v))),
+        windows_by_voltage=tuple(sorted(windows, key=lambda w: (w.worst_voltage_v, w.worst_tuner_loss_db))))
+
+
+def advise_station(station: Station, line_label, length_min_m, length_max_m, step_m, *,
+                   points_per_band=POINTS_PER_BAND, allow_large_scan=False, progress=None, max_loss_db=None):
+    """Scan the length of the station's feeder (the line called ``line_label``, or the longest).
+
+    The feed must hold one tuner on the radio side of the feeder; the elements between them and
+    between the feeder and the antenna are kept as they are.
+
+    Returns
+    -------
+    (LengthAdvice, frequency_hz, row index of each frequency)
+    """
+    if not isinstance(station.antenna, ImpedanceTable):
+        raise BudgetError("the length advisor needs the antenna's impedance at its feedpoint (impedance: {...} "
+                          "or a touchstone: sweep taken there)", "antenna")
+    feed = station.feed
+    try:
+        index = main_line_index(feed, line_label)
+    except CompareError as exc:
+        raise BudgetError(str(exc), "feed") from None
+    tuners = [k for k, element in enumerate(feed) if element.kind == "tuner"]
+    if len(tuners) != 1 or tuners[0] > index:
+        raise BudgetError(f"the length advisor needs exactly one tuner on the radio side of {feed[index].label}",
+                          "feed")
+    f, rows = scan_frequencies(station, points_per_band)
+    outside = outside_table(station.antenna.frequency_hz, f)
+    if outside.any():
+        names = sorted({station.labels[k] for k in rows[outside]})
+        raise BudgetError(f"the band edges of {', '.join(names)} lie outside the antenna table: the advisor "
+                          "checks edges and centre and never extrapolates", "antenna")
+    tuner = feed[tuners[0]]
+    advice: LengthAdvice = advise_length(
+        feed[index].cable, f, station.antenna.impedance_at(f), tuner.parts,
+        network="L" if tuner.network == "builtin" else tuner.network, r0_ohm=station.reference_impedance_ohm,
+        radio_power_w=station.radio_power_w, length_min_m=length_min_m, length_max_m=length_max_m, step_m=step_m,
+        abcd_tuner_to_feeder=[e.abcd(f) for e in feed[tuners[0] + 1:index]],
+        abcd_feeder_to_antenna=[e.abcd(f) for e in feed[index + 1:]],
+        allow_large_scan=allow_large_scan, progress=progress)
+    if max_loss_db is not None:
+        advice = within_loss(advice, max_loss_db)
+    return advice, f, rows
