@@ -1,0 +1,97 @@
+"""advise and plot through the command line: windows that re-solve, bad options, valid images."""
+from __future__ import annotations
+
+import dataclasses
+import json
+import struct
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from linecalc.budget import solve_budget
+from linecalc.elements import Line
+from linecalc.station import load_station
+
+ROOT = Path(__file__).resolve().parent.parent
+LINECALC = Path(sys.executable).parent / "linecalc"
+DOUBLET = ROOT / "stations" / "orchard-doublet.yaml"
+
+
+def run(*args):
+    return subprocess.run([str(LINECALC), *map(str, args)], capture_output=True, text=True, timeout=300)
+
+
+def test_advise_best_window_matches_when_re_solved_one_length_at_a_time():
+    result = run("advise", DOUBLET, "--from", "5 m", "--to", "25 m", "--step", "5 cm", "--max-loss", "0.35",
+                 "--format", "json")
+    assert result.returncode == 0, result.stderr
+    doc = json.loads(result.stdout)
+    assert doc["windows"], "the demo doublet has windows under 0.35 dB"
+    best = doc["windows"][0]
+    station = load_station(DOUBLET)
+    index = next(k for k, e in enumerate(station.feed) if e.kind == "line")
+    for length in np.linspace(best["start_m"], best["end_m"], 3):
+        feed = list(station.feed)
+        feed[index] = Line(feed[index].cable, float(length), feed[index].label)
+        checked = solve_budget(dataclasses.replace(station, feed=tuple(feed)))
+        tuner = next(e for e in checked.elements if e.kind == "tuner")
+        assert np.all(tuner.readings["matched"])
+        # the tuner's match holds to SWR 1.02 (tuner.MATCHED_SWR) at its input, on a 50-ohm radio side
+        assert np.all(checked.swr_radio <= 1.02)
+        assert np.all(tuner.loss_db <= best["worst_tuner_loss_db"] + 0.05)
+
+
+@pytest.mark.parametrize("args, words", [
+    (["--from", "10 m", "--to", "5 m"], "--from/--to:"),
+    (["--from", "5 m", "--to", "5 m"], "--from/--to:"),
+    (["--step", "0 m"], "--step:"),
+    (["--step", "0.1 mm"], "--step:"),
+    (["--step", "1 W"], "--step:"),
+])
+def test_advise_bad_options_exit_2_naming_the_option(args, words):
+    result = run("advise", DOUBLET, *args)
+    assert result.returncode == 2, result.stderr
+    assert result.stderr.startswith(f"linecalc advise: {words}") and "Traceback" not in result.stderr
+    assert result.stdout == ""
+
+
+def test_advise_without_a_tuner_names_the_feed():
+    result = run("advise", ROOT / "stations" / "hilltop-dipole.yaml")
+    assert result.returncode == 2
+    assert "tuner" in result.stderr and "(at feed)" in result.stderr
+
+
+def _png_size(path):
+    # PNG specification (ISO/IEC 15948), section 5.2 and 11.2.2: signature, then IHDR width and height
+    data = Path(path).read_bytes()
+    assert data[:8] == b"\x89PNG\r\n\x1a\n"
+    return struct.unpack(">II", data[16:24])
+
+
+@pytest.mark.parametrize("kind", ["swr", "budget", "smith", "voltage", "compare"])
+def test_plot_writes_a_png_of_sensible_size(kind, tmp_path):
+    out = tmp_path / f"{kind}.png"
+    result = run("plot", DOUBLET, kind, out, "--sweep", "11")
+    assert result.returncode == 0, result.stderr
+    width, height = _png_size(out)
+    assert (width, height) == (1000, 600)
+    assert 10_000 < out.stat().st_size < 2_000_000
+    again = run("plot", DOUBLET, kind, out)
+    assert again.returncode == 2 and "--force" in again.stderr
+    assert run("plot", DOUBLET, kind, out, "--force").returncode == 0
+    assert [p.name for p in tmp_path.iterdir()] == [out.name]  # no temporary file left
+
+
+def test_plot_svg_and_bad_suffix(tmp_path):
+    assert run("plot", DOUBLET, "budget", tmp_path / "b.svg").returncode == 0
+    assert (tmp_path / "b.svg").read_text().lstrip().startswith("<?xml")
+    bad = run("plot", DOUBLET, "budget", tmp_path / "b.gif")
+    assert bad.returncode == 2 and "Traceback" not in bad.stderr
+
+
+def test_plot_compare_without_alternatives_is_bad_input(tmp_path):
+    result = run("plot", ROOT / "stations" / "hilltop-dipole.yaml", "compare", tmp_path / "c.png")
+    assert result.returncode == 2 and "compare" in result.stderr
