@@ -92,8 +92,10 @@ def test_lossy_line_maximum_against_a_brute_force_scan(z_load_ohm, frequency_hz)
     ext = voltage.line_extremes(z0, gamma, length_m, path.voltage_v[1], path.current_a[1])
     np.testing.assert_allclose(ext.voltage_rms_v, v.max(), rtol=1e-6)
     np.testing.assert_allclose(ext.current_rms_a, i.max(), rtol=1e-6)
-    np.testing.assert_allclose(ext.voltage_position_m, length_m - distance[v.argmax()], atol=0.02)
-    np.testing.assert_allclose(ext.current_position_m, length_m - distance[i.argmax()], atol=0.02)
+    # the top of a standing-wave lobe is flat: a parabola through samples 1/16 of a half wave
+    # apart puts it within a few centimetres, while the value agrees to 1e-6 above
+    np.testing.assert_allclose(ext.voltage_position_m, length_m - distance[v.argmax()], atol=0.05)
+    np.testing.assert_allclose(ext.current_position_m, length_m - distance[i.argmax()], atol=0.05)
 
 
 def test_profile_ends_are_the_solver_nodes_and_lengths_vectorise():
