@@ -26,6 +26,8 @@ test: $(VENV)/.installed-test
 
 bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_solver.py
+	$(BIN)/python bench/bench_advisor.py
+	$(BIN)/python bench/bench_scale.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info linecalc.egg-info
