@@ -15,6 +15,12 @@ import numpy as np
 NO_POWER_FRACTION = 1e-12
 
 
+# Elements cascaded between renormalisations of the state. A line's matrix comes with its
+# exp(alpha l) taken out (`ScaledAbcd`), so one element can change the state's size only by
+# about the ratio of its impedances: sixteen of them stay far inside the range of a float.
+NORMALIZE_EVERY = 16
+
+
 class NoNetPowerError(ValueError):
     """The path accepts no net power at some frequencies, so no radio power can be delivered.
 
@@ -84,9 +90,10 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     At the antenna V = 1 + rho, I = (1 - rho)/Z_ref; each element maps its output to its input,
     [V_in, I_in] = ABCD [V_out, I_out]. Net power P = Re(V I*) at every node; all phasors are then
     scaled by sqrt(P_radio / P_0). Element k dissipates P_k - P_(k+1), so the energy balance
-    P_radio = P_antenna + sum(dissipated) holds by construction to rounding. After each element
-    the state is divided by its size and the logarithm of that size is carried along, so a path
-    of thousands of dB neither overflows nor loses its loss figure (``db_below_radio``).
+    P_radio = P_antenna + sum(dissipated) holds by construction to rounding. Every
+    `NORMALIZE_EVERY` elements the state is divided by a power of two near its size and the
+    exponent is carried along, so a path of thousands of dB neither overflows nor loses its loss
+    figure (``db_below_radio``).
 
     References
     ----------
@@ -94,42 +101,46 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     """
     rho_load = np.asarray(rho_load, dtype=complex)
     v, i = 1 + rho_load, (1 - rho_load) / z_ref_load_ohm
-    log_scale, exponent = np.zeros(v.shape), np.zeros(v.shape, dtype=int)
+    # sizes carried as logarithms (from scaled lines) and powers of two (from renormalising);
+    # plain zeros until a path needs them, which most paths never do
+    log_scale, exponent = 0.0, 0
     voltages, currents, log_scales, exponents = [v], [i], [log_scale], [exponent]
-    for abcd in reversed(abcd_list):
+    for count, abcd in enumerate(reversed(abcd_list), 1):
         if isinstance(abcd, ScaledAbcd):
             abcd, log_scale = abcd.matrix, log_scale + abcd.log_scale
         # the 2x2 product written out: numpy's matmul is slow on stacks of tiny matrices
         v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
-        # keep the state near unit size by a power of two (exact) and count the powers
-        _, shift = np.frexp(np.maximum(np.abs(v), np.abs(i) * z_ref_load_ohm))
-        factor = np.ldexp(1.0, -shift)
-        v, i, exponent = v * factor, i * factor, exponent + shift
+        if count % NORMALIZE_EVERY == 0:
+            # bring the state back near unit size by a power of two (exact) and count the powers
+            _, shift = np.frexp(np.maximum(np.abs(v), np.abs(i) * z_ref_load_ohm))
+            factor = np.ldexp(1.0, -shift)
+            v, i, exponent = v * factor, i * factor, exponent + shift
         voltages.append(v)
         currents.append(i)
         log_scales.append(log_scale)
         exponents.append(exponent)
-    shape = np.broadcast_shapes(*(v.shape for v in voltages), *(s.shape for s in log_scales))
+    shape = np.broadcast_shapes(*(np.shape(x) for x in voltages + log_scales + exponents))
 
     def nodes(values):
         return np.stack([np.broadcast_to(x, shape) for x in reversed(values)], -2)  # (..., n+1, nf)
 
-    voltage, current, log_scale, exponent = nodes(voltages), nodes(currents), nodes(log_scales), nodes(exponents)
+    voltage, current = nodes(voltages), nodes(currents)
     power_raw = (voltage * current.conj()).real
     no_power = power_raw[..., 0, :] <= NO_POWER_FRACTION * np.abs(voltage[..., 0, :]) * np.abs(current[..., 0, :])
     if np.any(no_power):
         raise NoNetPowerError(np.any(no_power.reshape(-1, no_power.shape[-1]), axis=0))
-    # each node's size relative to the radio end: <= 0 toward the antenna on a lossy path
-    relative_log = log_scale - log_scale[..., :1, :]
-    relative_exponent = exponent - exponent[..., :1, :]
-    relative = relative_log + relative_exponent * np.log(2.0)
-    scale = np.ldexp(np.sqrt(radio_power_w / power_raw[..., :1, :]) * np.exp(relative_log), relative_exponent)
-    power = power_raw * scale**2
+    scale = np.sqrt(radio_power_w / power_raw[..., :1, :])
     positive = power_raw > 0
-    db_below_radio = np.where(
-        positive,
-        10 * np.log10(power_raw[..., :1, :] / np.where(positive, power_raw, 1.0)) - 20 * np.log10(np.e) * relative,
-        np.inf)
+    db_below_radio = np.where(positive, 10 * np.log10(power_raw[..., :1, :] / np.where(positive, power_raw, 1.0)),
+                              np.inf)
+    if any(np.any(x) for x in log_scales + exponents):
+        # each node's size relative to the radio end: <= 0 toward the antenna on a lossy path
+        log_scale, exponent = nodes(log_scales), nodes(exponents)
+        relative_log = log_scale - log_scale[..., :1, :]
+        relative_exponent = exponent - exponent[..., :1, :]
+        scale = np.ldexp(scale * np.exp(relative_log), relative_exponent)
+        db_below_radio = db_below_radio - 20 * np.log10(np.e) * (relative_log + relative_exponent * np.log(2.0))
+    power = power_raw * scale**2
     return PathSolution(voltage * scale, current * scale, power, power[..., :-1, :] - power[..., 1:, :], db_below_radio,
                         voltage, current)
 

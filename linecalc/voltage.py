@@ -161,7 +161,25 @@ def _end_windows(gamma_per_m, length_m):
     return np.concatenate([near_load, length - near_load], axis=-2)
 
 
-def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, v_out, i_out, use_voltage):
+def _window_phasors(z0_ohm, gamma_per_m, ends, length_m, distance_m):
+    """V and I in the two end windows, each from the phasors at its own end, so that nothing
+    grows by more than half a wavelength of loss however long the line.
+
+    ``ends`` is ((v_out, i_out), (v_in, i_in)), each (..., nf); ``distance_m`` (..., 2, S, nf),
+    distances from the output: window 0 at the antenna end, window 1 at the radio end. From the
+    input, x = length - d and V(x) = V_in cosh(gx) - Z0 I_in sinh(gx): the output formula with
+    -gamma. Returns V and I of shape (..., 2, S, nf).
+    """
+    (v_out, i_out), (v_in, i_in) = ends
+    length = np.asarray(length_m, dtype=float)[..., None, None, None]
+    v_a, i_a = _phasors_at(z0_ohm, gamma_per_m, v_out[..., None, None, :], i_out[..., None, None, :],
+                           distance_m[..., :1, :, :])
+    v_r, i_r = _phasors_at(z0_ohm, -gamma_per_m, v_in[..., None, None, :], i_in[..., None, None, :],
+                           (length - distance_m)[..., 1:, :, :])
+    return np.concatenate(np.broadcast_arrays(v_a, v_r), axis=-3), np.concatenate(np.broadcast_arrays(i_a, i_r), axis=-3)
+
+
+def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, ends, use_voltage):
     """Largest of ``magnitude`` (..., 2 WINDOW_SAMPLES, nf) sampled at ``distance``, and where.
 
     In each window, a parabola through its largest interior sample and the two beside it (in
@@ -184,7 +202,7 @@ def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, v_out, 
     offset = np.divide(0.5 * (y0 - y2), curvature, out=np.zeros_like(y1), where=curvature < 0)
     # a vertex beyond the three samples is not trusted: the centre sample stands instead
     d = d_centre + np.where(np.abs(offset) <= 1, offset, 0.0) * (d_right - d_left) / 2  # (..., 2, nf)
-    v, i = _phasors_at(z0_ohm, gamma_per_m, v_out[..., None, :], i_out[..., None, :], d)
+    v, i = (x[..., 0, :] for x in _window_phasors(z0_ohm, gamma_per_m, ends, length_m, d[..., None, :]))
     length = np.asarray(length_m, dtype=float)[..., None, None]
     refined = np.where((d >= 0) & (d <= length), np.abs(v if use_voltage else i), -np.inf)
     candidates = np.concatenate([magnitude, refined], axis=-2)
@@ -193,13 +211,17 @@ def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, v_out, 
     return at(best, candidates), at(best, where)
 
 
-def line_extremes(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a) -> LineExtremes:
+def line_extremes(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a, voltage_in_v=None,
+                  current_in_a=None) -> LineExtremes:
     """Largest RMS and peak voltage and current on a line, and where they occur.
 
     Parameters
     ----------
     z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a
         As for `line_profile`.
+    voltage_in_v, current_in_a : array_like of complex, (..., nf), optional
+        The phasors at the line's input (radio end) [V], [A]; each end window is evaluated from
+        its own end, so a long lossy line does not overflow. Default: computed from the output.
 
     Returns
     -------
@@ -231,11 +253,18 @@ def line_extremes(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a) -
     """
     gamma_per_m = np.asarray(gamma_per_m, dtype=complex)
     distance = _end_windows(gamma_per_m, length_m)
-    v_out, i_out = np.asarray(voltage_out_v), np.asarray(current_out_a)
-    v, i = _phasors_at(z0_ohm, gamma_per_m, v_out[..., None, :], i_out[..., None, :], distance)
+    v_out, i_out = np.asarray(voltage_out_v, dtype=complex), np.asarray(current_out_a, dtype=complex)
+    if voltage_in_v is None or current_in_a is None:
+        v_in, i_in = _phasors_at(z0_ohm, gamma_per_m, v_out, i_out, np.asarray(length_m, dtype=float)[..., None])
+    else:
+        v_in, i_in = np.asarray(voltage_in_v, dtype=complex), np.asarray(current_in_a, dtype=complex)
+    ends = ((v_out, i_out), (v_in, i_in))
+    windowed = distance.reshape(distance.shape[:-2] + (2, WINDOW_SAMPLES, distance.shape[-1]))
+    v, i = (x.reshape(x.shape[:-3] + (2 * WINDOW_SAMPLES, x.shape[-1]))
+            for x in _window_phasors(z0_ohm, gamma_per_m, ends, length_m, windowed))
     length = np.asarray(length_m, dtype=float)[..., None]
-    v_max, v_d = _refined_maximum(np.abs(v), distance, length_m, z0_ohm, gamma_per_m, v_out, i_out, True)
-    i_max, i_d = _refined_maximum(np.abs(i), distance, length_m, z0_ohm, gamma_per_m, v_out, i_out, False)
+    v_max, v_d = _refined_maximum(np.abs(v), distance, length_m, z0_ohm, gamma_per_m, ends, True)
+    i_max, i_d = _refined_maximum(np.abs(i), distance, length_m, z0_ohm, gamma_per_m, ends, False)
     return LineExtremes(v_max, PEAK_PER_RMS * v_max, length - v_d, i_max, PEAK_PER_RMS * i_max, length - i_d)
 
 
@@ -255,7 +284,8 @@ def line_extremes_in_path(solution, index, line, frequency_hz) -> LineExtremes:
     """
     z0, gamma = line.cable.constants(frequency_hz)
     return line_extremes(z0, gamma, line.length_m, solution.voltage_v[..., index + 1, :],
-                         solution.current_a[..., index + 1, :])
+                         solution.current_a[..., index + 1, :], solution.voltage_v[..., index, :],
+                         solution.current_a[..., index, :])
 
 
 def swr_derated_power_rating_w(matched_rating_w, swr):
