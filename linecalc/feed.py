@@ -123,12 +123,12 @@ def read_cable(value, ctx, label):
     if isinstance(value, str):
         from . import library  # the library is read only when a station names one of its cables
 
-        cables = library.load_library()
-        if value not in cables:
+        found = library.cable(value)
+        if found is None:
             near = library.nearest_ids(value)
             hint = f"; did you mean {', '.join(near)}?" if near else "; `linecalc cables` lists the library"
             raise ctx.error(f"unknown cable id {value!r}{hint}")
-        return cables[value]
+        return found
     return _inline_cable(value, ctx, label)
 
 

@@ -5,38 +5,65 @@ these functions are the only place where a unit is read.
 """
 from __future__ import annotations
 
+import functools
 import math
 import re
 
-import pint
 
-
-
-def _registry() -> pint.UnitRegistry:
-    """The registry, with pint's parsed-definitions cache when the user cache folder is writable.
-
-    The cache cuts the start-up of every command by about 0.1 s; without it pint parses its
-    definitions file afresh, with the same result.
+@functools.lru_cache(maxsize=1)
+def registry():
+    """The one pint registry, made on first use, with pint's parsed-definitions cache when the
+    user cache folder is writable (without it pint parses its definitions afresh, same result).
     """
+    import pint  # a tenth of a second: only for units outside `COMMON_UNITS`
+
     try:
-        return pint.UnitRegistry(cache_folder=":auto:")
+        ureg = pint.UnitRegistry(cache_folder=":auto:")
     except OSError:
-        return pint.UnitRegistry()
+        ureg = pint.UnitRegistry()
+    # Trade spellings that pint does not know by itself.
+    ureg.define("ohms = ohm")
+    ureg.define("Ohm = ohm")
+    return ureg
 
 
-ureg = _registry()
-# Trade spellings that pint does not know by itself.
-ureg.define("ohms = ohm")
-ureg.define("Ohm = ohm")
+# The units station files use most, as (SI unit, exact factor to it). A quantity written in one
+# of them is read without pint; any other unit pint knows is read by pint. The tests check every
+# factor here against pint.
+COMMON_UNITS = {
+    "m": ("m", 1.0), "mm": ("m", 1e-3), "cm": ("m", 1e-2), "km": ("m", 1e3), "ft": ("m", 0.3048),
+    "in": ("m", 0.0254),
+    "Hz": ("Hz", 1.0), "kHz": ("Hz", 1e3), "MHz": ("Hz", 1e6), "GHz": ("Hz", 1e9),
+    "W": ("W", 1.0), "kW": ("W", 1e3), "mW": ("W", 1e-3),
+    "ohm": ("ohm", 1.0), "ohms": ("ohm", 1.0), "Ohm": ("ohm", 1.0), "kohm": ("ohm", 1e3),
+    "V": ("V", 1.0), "kV": ("V", 1e3), "A": ("A", 1.0), "mA": ("A", 1e-3),
+    "pF": ("F", 1e-12), "nF": ("F", 1e-9), "uF": ("F", 1e-6),
+    "nH": ("H", 1e-9), "uH": ("H", 1e-6), "mH": ("H", 1e-3),
+}
 
 DB_PER_NEPER = 20.0 / math.log(10.0)  # 8.686 dB per neper (amplitude)
 
 _NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
 _LOSS = re.compile(rf"^\s*({_NUMBER})\s*dB\s*/\s*(.+?)\s*$")
+_SIMPLE = re.compile(rf"^({_NUMBER})\s*({'|'.join(map(re.escape, COMMON_UNITS))})$")
 
 
 class UnitError(ValueError):
     """A value that cannot be read as the quantity its key asks for."""
+
+
+def _common(value, text, unit):
+    """The value of ``text`` in ``unit`` if it is a number and a `COMMON_UNITS` symbol, else None."""
+    match = _SIMPLE.match(text)
+    if match is None or unit not in {si for si, _ in COMMON_UNITS.values()}:
+        return None
+    si, factor = COMMON_UNITS[match.group(2)]
+    if si != unit:
+        raise UnitError(f"{value!r} is not a quantity in {unit} ({match.group(2)} given)")
+    result = float(match.group(1)) * factor
+    if not math.isfinite(result):
+        raise UnitError(f"{value!r} is not a finite number")
+    return result
 
 
 def parse_quantity(value, unit: str, *, bare_unit: str | None = None) -> float:
@@ -61,10 +88,16 @@ def parse_quantity(value, unit: str, *, bare_unit: str | None = None) -> float:
     if isinstance(value, (int, float)):
         if bare_unit is None:
             raise UnitError(f"a bare number needs a unit here, for example '{value} {unit}'")
-        return float(ureg.Quantity(float(value), bare_unit).to(unit).magnitude)
+        return parse_quantity(f"{float(value)!r} {bare_unit}", unit)
     if not isinstance(value, str):
         raise UnitError(f"expected a quantity in {unit}, got {value!r}")
     text = value.strip()
+    common = _common(value, text, unit)
+    if common is not None:
+        return common
+    import pint
+
+    ureg = registry()
     try:
         quantity = ureg.Quantity(text)
     except Exception as exc:  # pint raises several unrelated exception types on bad text
