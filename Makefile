@@ -28,6 +28,7 @@ bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_solver.py
 	$(BIN)/python bench/bench_advisor.py
 	$(BIN)/python bench/bench_scale.py
+	$(BIN)/python bench/bench_startup.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info linecalc.egg-info
