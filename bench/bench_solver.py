@@ -38,8 +38,21 @@ def linecalc_path(frequency_hz, path, rho_load):
     return solve_path([element.abcd(frequency_hz) for element in path], rho_load, 50.0, 100.0)
 
 
-def numpy_floor(frequency_hz, constants, lengths, rho_load):
-    """The bare formula inline: cosh/sinh chain matrices, product, input impedance and power."""
+def inline_constants(frequency_hz, cable):
+    """Z0 and gamma from a fitted cable's four numbers, the bare formula inline (as linecalc does:
+    R' = 2 Z0 k_c sqrt(f), G' = 2 k_d f / Z0, L' = Z0/v + R'/omega, C' = 1/(Z0 v))."""
+    omega = 2 * np.pi * frequency_hz
+    v = cable.velocity_factor * 299_792_458.0
+    r = 2 * cable.z0_nominal_ohm * cable.k_conductor * np.sqrt(frequency_hz)
+    z = r + 1j * omega * (cable.z0_nominal_ohm / v + r / omega)
+    y = 2 * cable.k_dielectric * frequency_hz / cable.z0_nominal_ohm + 1j * omega / (cable.z0_nominal_ohm * v)
+    return np.sqrt(z / y), np.sqrt(z * y)
+
+
+def numpy_floor(frequency_hz, cables, lengths, rho_load):
+    """The bare formula inline: line constants, cosh/sinh chain matrices, product, input
+    impedance and power; no objects."""
+    constants = [inline_constants(frequency_hz, cable) for cable in cables]
     v = 1 + rho_load
     i = (1 - rho_load) / 50.0
     for (z0, gamma), length in zip(reversed(constants), reversed(lengths)):
@@ -74,7 +87,7 @@ def main():
     rho_load = np.full(frequency_hz.shape, 0.3 + 0.4j)
     ours = best_of(lambda: linecalc_path(frequency_hz, path, rho_load))
     ref = best_of(lambda: skrf_path(frequency_hz, constants, lengths, rho_load), repeats=3)
-    floor = best_of(lambda: numpy_floor(frequency_hz, constants, lengths, rho_load))
+    floor = best_of(lambda: numpy_floor(frequency_hz, [e.cable for e in path], lengths, rho_load))
     print(f"4-element path, 10,001 frequencies   {ours * 1e3:12.2f}  {ref * 1e3:14.2f}  {floor * 1e3:16.2f}  "
           f"{ref / ours:6.1f}x  {ours / floor:6.2f}x")
 
@@ -83,7 +96,7 @@ def main():
     band_constants = RG213_LIKE.constants(BAND_CENTRES_HZ)
     rho_bands = np.full(BAND_CENTRES_HZ.shape, 0.5 - 0.2j)
     ours = best_of(lambda: linecalc_path(BAND_CENTRES_HZ, [swept], rho_bands))
-    floor = best_of(lambda: numpy_floor(BAND_CENTRES_HZ, [band_constants], [length_m], rho_bands))
+    floor = best_of(lambda: numpy_floor(BAND_CENTRES_HZ, [RG213_LIKE], [length_m], rho_bands))
 
     def skrf_lengths():
         # scikit-rf has no length axis: one network per length, as a user of it would write
