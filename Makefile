@@ -20,6 +20,7 @@ $(VENV)/.installed-test: pyproject.toml | $(BIN)/python
 demo: $(VENV)/.installed
 	$(BIN)/linecalc budget stations/hilltop-dipole.yaml
 	$(BIN)/linecalc budget stations/orchard-doublet.yaml
+	$(BIN)/linecalc compare stations/tuner-in-shack.yaml --tuner-positions
 
 test: $(VENV)/.installed-test
 	$(BIN)/python -m pytest -q
