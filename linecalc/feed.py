@@ -24,7 +24,7 @@ import numpy as np
 from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
 from .elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from .tuner import TunerParts
-from .schema import frequency_table, mapping, number, quantity, string
+from .schema import decibels, frequency_table, mapping, number, quantity, string
 from .units import UnitError, parse_impedance, parse_loss_db_per_m
 
 CONNECTOR_LOSS_DB = 0.05
@@ -148,17 +148,9 @@ def _loss(doc, ctx, default_db):
     """A non-negative loss in dB (``0.1 dB`` or a bare number in dB)."""
     if "loss" not in doc:
         return default_db
-    value = doc["loss"]
-    where = ctx.child(doc, "loss")
-    text = value.strip() if isinstance(value, str) else value
-    if isinstance(text, str) and text.lower().endswith("db"):
-        text = text[:-2].strip()
-    try:
-        loss = float(text)
-    except (TypeError, ValueError):
-        raise where.error(f"a loss is a number of dB such as 0.1 dB, got {value!r}") from None
-    if isinstance(value, bool) or not np.isfinite(loss) or loss < 0:
-        raise where.error(f"a loss is zero or more dB, got {value!r}")
+    loss = decibels(doc, "loss", ctx, "dB")
+    if loss < 0:
+        raise ctx.child(doc, "loss").error(f"a loss is zero or more dB, got {doc['loss']!r}")
     return loss
 
 

@@ -136,6 +136,23 @@ def number(parent, key, ctx, *, low=None, high=None, low_open=True):
     return float(value)
 
 
+def decibels(parent, key, ctx, suffix):
+    """A logarithmic figure such as ``0.1 dB`` or ``2.15 dBi``: the number, with ``suffix`` or bare
+    (decibels are no pint quantity, so they are read here)."""
+    value = parent[key]
+    where = ctx.child(parent, key)
+    text = value.strip() if isinstance(value, str) else value
+    if isinstance(text, str) and text.lower().endswith(suffix.lower()):
+        text = text[:-len(suffix)].strip()
+    try:
+        result = float(text)
+    except (TypeError, ValueError):
+        raise where.error(f"expected a number of {suffix} such as 0.2 {suffix}, got {value!r}") from None
+    if isinstance(value, bool) or not math.isfinite(result):
+        raise where.error(f"expected a finite number of {suffix}, got {value!r}")
+    return result
+
+
 def string(parent, key, ctx):
     value = parent[key]
     if not isinstance(value, str) or not value.strip():

@@ -16,7 +16,8 @@ from .compare import CompareSpec
 from .exposure import MODE_DUTY_FACTORS, duty_factor
 from .feed import build_feed, read_cable
 from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
-from .schema import Context, StationError, frequency_table, load_yaml_text, mapping, number, quantity, string
+from .schema import (Context, StationError, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
+                     string)
 from .units import UnitError, parse_impedance
 
 
@@ -47,20 +48,7 @@ def _read_swr(value, ctx):
 
 def _gain_dbi(doc, ctx):
     """Antenna gain over isotropic: ``2.15 dBi`` or a bare number of dBi; default `ANTENNA_GAIN_DBI`."""
-    if "gain" not in doc:
-        return ANTENNA_GAIN_DBI
-    value = doc["gain"]
-    where = ctx.child(doc, "gain")
-    text = value.strip() if isinstance(value, str) else value
-    if isinstance(text, str) and text.lower().endswith("dbi"):
-        text = text[:-3].strip()
-    try:
-        gain = float(text)
-    except (TypeError, ValueError):
-        raise where.error(f"a gain is a number of dBi such as 2.15 dBi, got {value!r}") from None
-    if isinstance(value, bool) or not math.isfinite(gain):
-        raise where.error(f"a gain is a finite number of dBi, got {value!r}")
-    return gain
+    return decibels(doc, "gain", ctx, "dBi") if "gain" in doc else ANTENNA_GAIN_DBI
 
 
 def _touchstone(doc, ctx, file):
