@@ -183,21 +183,30 @@ def frequency_table(table, ctx, read_value):
 
 
 
+def _one_line(message):
+    """A parser's message on one line (some span several, with the position we report already)."""
+    return " ".join(str(message).split())
+
+
 def load_yaml_text(text, file):
     """Parse YAML text into mappings and sequences that remember their lines.
 
     An empty document, a syntax error or a duplicate key is a `StationError` naming ``file``.
     """
-    loader = _LineLoader(text)
+    try:
+        loader = _LineLoader(text)  # the reader refuses control characters here, before any parsing
+    except yaml.reader.ReaderError as exc:
+        line = text.count("\n", 0, exc.position) + 1
+        raise StationError(file, line, f"character #x{exc.character:04x} is not allowed in a YAML file") from None
     loader.name = str(file)
     try:
         doc = loader.get_single_data()
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line = mark.line + 1 if mark else 1
-        raise StationError(file, line, f"YAML syntax error: {exc.problem or exc}") from None
+        raise StationError(file, line, f"YAML syntax error: {_one_line(exc.problem or exc)}") from None
     except yaml.YAMLError as exc:
-        raise StationError(file, 1, f"YAML error: {exc}") from None
+        raise StationError(file, 1, f"YAML error: {_one_line(exc)}") from None
     finally:
         loader.dispose()
     if doc is None:
