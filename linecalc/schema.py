@@ -35,8 +35,57 @@ class _Sequence(list):
     item_lines: list
 
 
+# A station file nests about eight levels deep and holds a few thousand values. Anchors and
+# aliases may repeat parts of it, but a few lines of aliases can expand to billions of values
+# (and so can an error message that shows one); deeper or larger documents are refused.
+MAX_DEPTH = 64
+MAX_EXPANDED_VALUES = 1_000_000
+
+
 class _LineLoader(yaml.SafeLoader):
-    """Safe YAML loader that records lines and refuses duplicate keys."""
+    """Safe YAML loader that records lines, refuses duplicate keys and nesting past `MAX_DEPTH`."""
+
+    def __init__(self, stream):
+        super().__init__(stream)
+        self.depth = 0
+
+    def compose_node(self, parent, index):
+        # the composer recurses once per level: refuse before Python's recursion limit is reached
+        if self.depth >= MAX_DEPTH:
+            line = self.peek_event().start_mark.line + 1
+            raise StationError(self.name, line, f"the document nests deeper than {MAX_DEPTH} levels")
+        self.depth += 1
+        try:
+            return super().compose_node(parent, index)
+        finally:
+            self.depth -= 1
+
+
+def _check_expansion(root, file):
+    """Refuse a document whose aliases expand it past `MAX_EXPANDED_VALUES` values or `MAX_DEPTH` levels.
+
+    One walk over the node graph, each node once (aliases share their node); a node that contains
+    itself is left to the constructor, which refuses it.
+    """
+    size, depth, open_nodes, stack = {}, {}, set(), [(root, False)]
+    while stack:
+        node, children_done = stack.pop()
+        if isinstance(node, yaml.MappingNode):
+            children = [child for pair in node.value for child in pair]
+        else:
+            children = node.value if isinstance(node, yaml.SequenceNode) else []
+        if children_done:
+            open_nodes.discard(id(node))
+            size[id(node)] = 1 + sum(size.get(id(child), 0) for child in children)
+            depth[id(node)] = 1 + max((depth.get(id(child), 0) for child in children), default=0)
+            if size[id(node)] > MAX_EXPANDED_VALUES or depth[id(node)] > MAX_DEPTH:
+                raise StationError(file, node.start_mark.line + 1,
+                                   f"with its aliases expanded this value holds more than {MAX_EXPANDED_VALUES:,} "
+                                   f"values or nests deeper than {MAX_DEPTH} levels")
+        elif id(node) not in size and id(node) not in open_nodes:
+            open_nodes.add(id(node))
+            stack.append((node, True))
+            stack.extend((child, False) for child in children)
 
 
 def _construct_mapping(loader, node):
@@ -200,7 +249,10 @@ def load_yaml_text(text, file):
         raise StationError(file, line, f"character #x{exc.character:04x} is not allowed in a YAML file") from None
     loader.name = str(file)
     try:
-        doc = loader.get_single_data()
+        node = loader.get_single_node()
+        if node is not None:
+            _check_expansion(node, file)
+        doc = None if node is None else loader.construct_document(node)
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line = mark.line + 1 if mark else 1
