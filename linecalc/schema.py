@@ -6,6 +6,7 @@ from __future__ import annotations
 
 import math
 import re
+import sys
 
 import numpy as np
 import yaml
@@ -112,6 +113,15 @@ def _construct_sequence(loader, node):
     return result
 
 
+def _construct_int(loader, node):
+    """An integer, refused where it does not fit a float (every number ends up as one)."""
+    value = loader.construct_yaml_int(node)
+    if abs(value) > sys.float_info.max:
+        raise StationError(loader.name, node.start_mark.line + 1,
+                           f"a number of {len(str(abs(value)))} digits is too large")
+    return value
+
+
 # YAML 1.1 reads 4:1 as the base-60 number 241 and 1_000 as 1000: a balun ratio must stay text.
 # Numbers are resolved as in YAML 1.2 (plain decimal and exponent forms) instead.
 _LineLoader.yaml_implicit_resolvers = {
@@ -122,6 +132,7 @@ _LineLoader.add_implicit_resolver(
     "tag:yaml.org,2002:float",
     re.compile(r"^(?:[-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?|[-+]?\.(?:inf|Inf|INF)|\.(?:nan|NaN|NAN))$"),
     list("-+0123456789."))
+_LineLoader.add_constructor("tag:yaml.org,2002:int", _construct_int)
 _LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _construct_mapping)
 _LineLoader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_SEQUENCE_TAG, _construct_sequence)
 
