@@ -19,7 +19,12 @@ class StationError(ValueError):
     def __init__(self, file, line, message, path=""):
         self.file, self.line, self.message, self.path = str(file), line, message, path
         where = f" (at {path})" if path else ""
-        super().__init__(f"{self.file}:{line}: {message}{where}")
+        super().__init__(_printable(f"{self.file}:{line}: {message}{where}"))
+
+
+def _printable(text):
+    """``text`` with each unprintable character (a line break in a key, say) escaped: one line, always."""
+    return "".join(c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in text)
 
 
 class _Mapping(dict):
