@@ -8,6 +8,7 @@ from __future__ import annotations
 import functools
 import math
 import re
+import sys
 
 
 @functools.lru_cache(maxsize=1)
@@ -88,6 +89,8 @@ def parse_quantity(value, unit: str, *, bare_unit: str | None = None) -> float:
     if isinstance(value, (int, float)):
         if bare_unit is None:
             raise UnitError(f"a bare number needs a unit here, for example '{value} {unit}'")
+        if isinstance(value, int) and abs(value) > sys.float_info.max:
+            raise UnitError(f"a number of {len(str(abs(value)))} digits is too large")
         return parse_quantity(f"{float(value)!r} {bare_unit}", unit)
     if not isinstance(value, str):
         raise UnitError(f"expected a quantity in {unit}, got {value!r}")
@@ -95,6 +98,8 @@ def parse_quantity(value, unit: str, *, bare_unit: str | None = None) -> float:
     common = _common(value, text, unit)
     if common is not None:
         return common
+    if "**" in text or "^" in text:  # pint raises to powers in Python integers: '9**9**9 m' runs for hours
+        raise UnitError(f"cannot read {value!r} as a quantity in {unit}; write a number and a unit, such as '30 {unit}'")
     import pint
 
     ureg = registry()
@@ -102,17 +107,19 @@ def parse_quantity(value, unit: str, *, bare_unit: str | None = None) -> float:
         quantity = ureg.Quantity(text)
     except Exception as exc:  # pint raises several unrelated exception types on bad text
         raise UnitError(f"cannot read {value!r} as a quantity in {unit}") from exc
-    if not isinstance(quantity, pint.Quantity) or quantity.dimensionless:
-        if bare_unit is None:
-            raise UnitError(f"{value!r} has no unit; write it as for example '{text} {unit}'")
-        return float(ureg.Quantity(float(quantity), bare_unit).to(unit).magnitude)
     try:
+        if not isinstance(quantity, pint.Quantity) or quantity.dimensionless:
+            if bare_unit is None:
+                raise UnitError(f"{value!r} has no unit; write it as for example '{text} {unit}'")
+            quantity = ureg.Quantity(float(quantity), bare_unit)
         magnitude = quantity.to(unit).magnitude
+        if not isinstance(magnitude, (int, float)) or isinstance(magnitude, complex):
+            raise UnitError(f"cannot read {value!r} as a quantity in {unit}")
+        result = float(magnitude)
     except pint.DimensionalityError as exc:
         raise UnitError(f"{value!r} is not a quantity in {unit} ({quantity.units:~} given)") from exc
-    if not isinstance(magnitude, (int, float)) or isinstance(magnitude, complex):
-        raise UnitError(f"cannot read {value!r} as a quantity in {unit}")
-    result = float(magnitude)
+    except OverflowError:  # an integer of hundreds of digits
+        raise UnitError(f"{value!r} is too large") from None
     if not math.isfinite(result):
         raise UnitError(f"{value!r} is not a finite number")
     return result
@@ -152,6 +159,8 @@ def parse_loss_db_per_m(value, *, bare_unit: str | None = None) -> float:
     length_m = parse_quantity(length_text, "m")
     if length_m <= 0:
         raise UnitError(f"the length in {value!r} must be positive")
+    if not math.isfinite(db / length_m):  # '1e400 dB/100m' would read as infinite and fit as lossless
+        raise UnitError(f"{value!r} is not a finite loss")
     return db / length_m
 
 
