@@ -344,7 +344,8 @@ def solve_budget(station: Station) -> BudgetResult:
             readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean,
                                         designs.get(k))
         if element.kind == "line":
-            stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only)
+            stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only,
+                                                station.duty_factor * station.transmit_fraction)
         elif k in designs:
             stress, warned = safety.tuner_stress(designs[k], solution.voltage_v[..., k, :], solution.current_a[..., k, :],
                                                  element, station.labels, swr_only)

@@ -306,6 +306,7 @@ class Cable:
     k_dielectric: float = 0.0
     data_range_hz: tuple[float, float] = (0.0, np.inf)
     max_voltage_v: float | None = None
+    max_power_w: float | None = None  # matched average power rating, where the user knows one
     rlgc_model: str = "fit"
     geometry: dict = field(default_factory=dict, compare=False, hash=False)
 

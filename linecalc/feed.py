@@ -19,6 +19,8 @@ Defaults, all documented in the README where the key is:
 """
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 
 from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
@@ -43,12 +45,17 @@ _COAX_KEYS = ("inner_diameter", "dielectric_diameter", "permittivity", "loss_tan
 _TWO_WIRE_KEYS = ("wire_diameter", "spacing")
 
 
+def _rated(cable, max_power_w):
+    """The cable with its matched average power rating [W] (None: unknown)."""
+    return dataclasses.replace(cable, max_power_w=max_power_w) if max_power_w is not None else cable
+
+
 def _inline_cable(doc, ctx, label):
     """A cable given in the station file: loss points, or coax or two-wire geometry."""
     if not isinstance(doc, dict):
         raise ctx.error("a cable is a library id or a mapping")
     geometry = doc.get("geometry")
-    common = ("description", "max_voltage")
+    common = ("description", "max_voltage", "max_power")
     if geometry is None:
         mapping(doc, ctx, required=_POINTS_KEYS, optional=("kind", "geometry") + common)
     elif geometry == "coax":
@@ -61,6 +68,7 @@ def _inline_cable(doc, ctx, label):
         raise ctx.child(doc, "geometry").error(f"geometry is coax or two-wire, got {geometry!r}")
     description = string(doc, "description", ctx) if "description" in doc else f"inline cable of {label}"
     max_voltage = quantity(doc, "max_voltage", ctx, "V") if "max_voltage" in doc else None
+    max_power = quantity(doc, "max_power", ctx, "W") if "max_power" in doc else None
     cable_id = f"inline:{ctx.path}"
 
     if geometry is None:
@@ -80,7 +88,7 @@ def _inline_cable(doc, ctx, label):
             return loss
 
         f, loss = frequency_table(doc["loss"], ctx.child(doc, "loss"), read_loss)
-        return cable_from_points(cable_id, description, kind, z0, vf, f, loss, max_voltage)
+        return _rated(cable_from_points(cable_id, description, kind, z0, vf, f, loss, max_voltage), max_power)
 
     def material(key):
         name = doc.get(key, "copper")
@@ -99,9 +107,10 @@ def _inline_cable(doc, ctx, label):
         big_d = quantity(doc, "dielectric_diameter", ctx, "m")
         if not big_d > d:
             raise ctx.child(doc, "dielectric_diameter").error("must be larger than the inner diameter")
-        return coax_from_geometry(cable_id, description, d, big_d, number(doc, "permittivity", ctx, low=1, low_open=False),
-                                  tangent(), material("inner_material"), material("outer_material"),
-                                  factor("inner_factor"), factor("outer_factor"), max_voltage)
+        return _rated(coax_from_geometry(cable_id, description, d, big_d,
+                                         number(doc, "permittivity", ctx, low=1, low_open=False), tangent(),
+                                         material("inner_material"), material("outer_material"),
+                                         factor("inner_factor"), factor("outer_factor"), max_voltage), max_power)
     d = quantity(doc, "wire_diameter", ctx, "m")
     spacing = quantity(doc, "spacing", ctx, "m")
     if not spacing > d:
@@ -114,8 +123,8 @@ def _inline_cable(doc, ctx, label):
         permittivity = number(doc, "permittivity", ctx, low=1, low_open=False)
     else:
         permittivity = 1.0
-    return two_wire_from_geometry(cable_id, description, d, spacing, permittivity, tangent(),
-                                  material("material"), factor("conductor_factor"), max_voltage)
+    return _rated(two_wire_from_geometry(cable_id, description, d, spacing, permittivity, tangent(),
+                                         material("material"), factor("conductor_factor"), max_voltage), max_power)
 
 
 def read_cable(value, ctx, label):

@@ -187,14 +187,17 @@ def safety_table(result: BudgetResult) -> str:
              f"antenna gain {result.antenna_gain_dbi:g} dBi", ""]
     for e in result.elements:
         if e.kind == "line":
-            body = [[label, f"{e.readings['voltage_max_rms_v'][i]:.0f}", f"{e.readings['voltage_max_peak_v'][i]:.0f}",
-                     f"{e.readings['voltage_max_at_m'][i]:.1f}", f"{e.readings['current_max_rms_a'][i]:.2f}",
-                     f"{e.readings['current_max_at_m'][i]:.1f}",
-                     f"{e.readings['voltage_margin'][i]:.1f}" if "voltage_margin" in e.readings else "no rating"]
+            r = e.readings
+            body = [[label, f"{r['voltage_max_rms_v'][i]:.0f}", f"{r['voltage_max_peak_v'][i]:.0f}",
+                     f"{r['voltage_max_at_m'][i]:.1f}", f"{r['current_max_rms_a'][i]:.2f}", f"{r['current_max_at_m'][i]:.1f}",
+                     f"{r['voltage_margin'][i]:.1f}" if "voltage_margin" in r else "no rating",
+                     f"{r['power_margin'][i]:.1f}" if "power_margin" in r else "no rating"]
                     for i, label in enumerate(result.labels)]
-            lines += [f"Line {e.label} at PEP (positions from its radio end):",
+            lines += [f"Line {e.label} at PEP (positions from its radio end; margins are rating / stress, below 1 "
+                      "is over the rating):",
                       tabulate(body, headers=["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m",
-                                              "rating / V max"], disable_numparse=True, stralign="right"), ""]
+                                              "voltage margin", "power margin"], disable_numparse=True,
+                               stralign="right"), ""]
         elif e.kind == "tuner":
             parts = sorted({key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings if key.endswith("_voltage_peak_v")})
             body = [[label] + [f"{e.readings[p + '_voltage_peak_v'][i]:.0f} V / {e.readings[p + '_current_rms_a'][i]:.2f} A"

@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from .exposure import PLAUSIBLE_GAIN_DBI, average_power_w, exposure_distances
-from .voltage import PEAK_PER_RMS, line_extremes_in_path, tuner_part_stress
+from .voltage import PEAK_PER_RMS, line_extremes_in_path, line_rating_margins, tuner_part_stress
 
 # The span of the exposure limit tables [Hz] (47 CFR 1.1310 Table 1 starts at 0.3 MHz).
 EXPOSURE_SPAN_HZ = (0.3e6, 100e9)
@@ -20,8 +20,12 @@ def _worst(values, swr_only):
     return np.max(values, axis=0) if swr_only else values
 
 
-def line_stress(solution, index, line, frequency_hz, labels, swr_only):
-    """Readings (largest RMS and peak voltage and current on the line, where) and rating warnings."""
+def line_stress(solution, index, line, frequency_hz, labels, swr_only, average_fraction):
+    """Readings (largest RMS and peak voltage and current on the line, where) and rating warnings.
+
+    ``average_fraction`` (duty factor times transmit fraction) turns the PEP current into the
+    average heating that a power rating speaks of.
+    """
     extremes = line_extremes_in_path(solution, index, line, frequency_hz)
     if swr_only:
         worst_phase = np.argmax(extremes.voltage_rms_v, axis=0)
@@ -39,6 +43,17 @@ def line_stress(solution, index, line, frequency_hz, labels, swr_only):
         "current_max_at_m": position_i,
     }
     warnings = []
+    if line.cable.max_power_w is not None:
+        z0, _ = line.cable.constants(frequency_hz)
+        check = line_rating_margins(extremes, z0, matched_power_rating_w=line.cable.max_power_w,
+                                    average_fraction=average_fraction)
+        readings["heating_power_w"] = _worst(check.heating_power_w, swr_only)
+        readings["power_margin"] = line.cable.max_power_w / readings["heating_power_w"]
+        over = [f"{label} (heats as {h:.0f} W matched)" for label, h, m in
+                zip(labels, readings["heating_power_w"], readings["power_margin"]) if m < 1]
+        if over:
+            warnings.append(f"line {line.label}: its current maxima run hotter than its {line.cable.max_power_w:.0f} W "
+                            f"rating allows on {', '.join(over)}: the rating divided by the SWR is exceeded")
     rating = line.cable.max_voltage_v
     if rating is not None:
         readings["voltage_margin"] = rating / readings["voltage_max_rms_v"]
