@@ -367,7 +367,7 @@ def test_cable_rating_below_the_line_maximum_warns_naming_the_band(tmp_path, cap
     # the safety table shows the same margin and the warning
     code, out, err = run(capsys, "safety", station)
     assert code == 0 and "rated coax" in err and "40m" in err
-    assert "rating / V max" in out
+    assert "voltage margin" in out
 
 
 def test_row_outside_the_exposure_tables_shows_no_figures(tmp_path, capsys):
