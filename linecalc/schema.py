@@ -55,6 +55,16 @@ class _LineLoader(yaml.SafeLoader):
         super().__init__(stream)
         self.depth = 0
 
+    def construct_object(self, node, deep=False):
+        try:
+            return super().construct_object(node, deep=deep)
+        except StationError:
+            raise
+        except (ValueError, TypeError, KeyError) as exc:  # an explicit tag on a value it cannot read: !!float x
+            raise StationError(self.name, node.start_mark.line + 1,
+                               f"cannot read {node.value if isinstance(node, yaml.ScalarNode) else 'this value'!r} "
+                               f"as {node.tag.rsplit(':', 1)[-1]}: {exc}") from None
+
     def compose_node(self, parent, index):
         # the composer recurses once per level: refuse before Python's recursion limit is reached
         if self.depth >= MAX_DEPTH:
