@@ -92,7 +92,7 @@ def _inline_cable(doc, ctx, label):
 
     def material(key):
         name = doc.get(key, "copper")
-        if name not in CONDUCTIVITY_S_PER_M:
+        if not isinstance(name, str) or name not in CONDUCTIVITY_S_PER_M:  # a mapping here cannot be looked up
             raise ctx.child(doc, key).error(f"unknown material {name!r}; known: {', '.join(CONDUCTIVITY_S_PER_M)}")
         return name
 
