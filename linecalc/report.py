@@ -48,21 +48,22 @@ def budget_document(result: BudgetResult) -> dict:
             "swr_radio": _finite_or_none(result.swr_radio[i]),
             "z_antenna_ohm": _pair(None if result.z_antenna_ohm is None else result.z_antenna_ohm[i]),
             "z_radio_ohm": _pair(None if result.z_radio_ohm is None else result.z_radio_ohm[i]),
-            "matched_loss_db": float(result.matched_loss_db[i]),
-            "mismatch_loss_db": float(result.mismatch_loss_db[i]),
-            "total_loss_db": float(result.total_loss_db[i]),
-            "power_radio_w": float(result.power_radio_w[i]),
-            "power_antenna_w": float(result.power_antenna_w[i]),
+            "matched_loss_db": _finite_or_none(result.matched_loss_db[i]),
+            "mismatch_loss_db": _finite_or_none(result.mismatch_loss_db[i]),
+            "total_loss_db": _finite_or_none(result.total_loss_db[i]),
+            "power_radio_w": _finite_or_none(result.power_radio_w[i]),
+            "power_antenna_w": _finite_or_none(result.power_antenna_w[i]),
             "elements": [
-                {"kind": e.kind, "label": e.label, "loss_db": float(e.loss_db[i]),
-                 "matched_loss_db": float(e.matched_loss_db[i]), "dissipated_w": float(e.dissipated_w[i]),
+                {"kind": e.kind, "label": e.label, "loss_db": _finite_or_none(e.loss_db[i]),
+                 "matched_loss_db": _finite_or_none(e.matched_loss_db[i]),
+                 "dissipated_w": _finite_or_none(e.dissipated_w[i]),
                  "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i]),
                  **{key: _json_value(values[i]) for key, values in e.readings.items()}}
                 for e in result.elements
             ],
         }
         if result.total_loss_db_range is not None:
-            row["total_loss_db_range"] = [float(v) for v in result.total_loss_db_range[i]]
+            row["total_loss_db_range"] = [_finite_or_none(v) for v in result.total_loss_db_range[i]]
         if result.measured:
             row["measured"] = {key: _finite_or_none(values[i]) for key, values in result.measured.items()}
         if result.exposure:
@@ -272,11 +273,11 @@ def compare_document(comparison) -> dict:
             "label": label,
             "frequency_hz": float(comparison.frequency_hz[i]),
             "alternatives": [{"name": name, "power_antenna_w": float(comparison.power_antenna_w[k, i]),
-                              "total_loss_db": float(comparison.total_loss_db[k, i]),
+                              "total_loss_db": _finite_or_none(comparison.total_loss_db[k, i]),
                               "swr_radio": _finite_or_none(comparison.results[k].swr_radio[i])}
                              for k, name in enumerate(comparison.names)],
             "winner": comparison.names[comparison.winner[i]],
-            "margin_db": float(comparison.margin_db[i]),
+            "margin_db": _finite_or_none(comparison.margin_db[i]),
         })
     doc = {"station": comparison.station, "alternatives": list(comparison.names), "rows": rows,
            "warnings": list(comparison.warnings)}
@@ -285,8 +286,8 @@ def compare_document(comparison) -> dict:
         doc["line_study"] = {
             "label": study.label, "length_m": [float(v) for v in study.length_m],
             "rows": [{"label": label,
-                      "exact_loss_db": [float(v) for v in study.exact_loss_db[:, i]],
-                      "closed_form_loss_db": [float(v) for v in study.closed_form_loss_db[:, i]],
+                      "exact_loss_db": [_finite_or_none(v) for v in study.exact_loss_db[:, i]],
+                      "closed_form_loss_db": [_finite_or_none(v) for v in study.closed_form_loss_db[:, i]],
                       "swr_load": [_finite_or_none(v) for v in study.swr_load[:, i]]}
                      for i, label in enumerate(comparison.labels)]}
     return doc
