@@ -201,7 +201,10 @@ def compare(station: Station, alternatives) -> Comparison:
     order = np.argsort(loss, axis=0, kind="stable")
     winner = order[0]
     columns = np.arange(loss.shape[1])
-    margin = loss[order[1], columns] - loss[winner, columns]
+    best, runner_up = loss[winner, columns], loss[order[1], columns]
+    # two alternatives into a dead short both lose everything: no margin between them
+    both_lost = np.isinf(best) & np.isinf(runner_up)
+    margin = np.where(both_lost, 0.0, runner_up - np.where(both_lost, 0.0, best))
     warnings = tuple(dict.fromkeys(w for r in results for w in r.warnings))
     return Comparison(station.name, tuple(station.labels), np.asarray(station.frequency_hz), tuple(a.name for a in alternatives),
                       results, power, loss, winner, margin, warnings, _line_study(alternatives, results))
