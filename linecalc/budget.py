@@ -9,8 +9,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import safety
-from . import deembed
+from . import deembed, safety
 from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
 from .solver import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
@@ -294,6 +293,33 @@ def _phase_mean(values, swr_only):
     return values.mean(axis=0) if swr_only else values
 
 
+def _element_budgets(station, solution, designs, db_below_radio, dissipated_w, swr_in, swr_out, swr_only):
+    """Each element's loss, heat, SWR at its ports, readings (a meter's, a tuner's setting) and
+    stress (a line's or a tuner part's voltage and current), with the warnings of the stress."""
+    f = station.frequency_hz
+
+    def phase_mean(values):
+        return _phase_mean(values, swr_only)
+
+    elements, warnings = [], []
+    for k, element in enumerate(station.feed):
+        v_in, i_in = solution.voltage_v[..., k, :], solution.current_a[..., k, :]
+        readings = element.readings(v_in, i_in, phase_mean, designs.get(k)) if hasattr(element, "readings") else {}
+        if element.kind == "line":
+            stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only,
+                                                station.duty_factor * station.transmit_fraction)
+        elif k in designs:
+            stress, warned = safety.tuner_stress(designs[k], v_in, i_in, element, station.labels, swr_only)
+        else:
+            stress, warned = {}, []
+        warnings += warned
+        elements.append(ElementBudget(
+            kind=element.kind, label=element.label, loss_db=db_below_radio[k + 1] - db_below_radio[k],
+            matched_loss_db=np.broadcast_to(element.matched_loss_db(f), np.shape(f)), dissipated_w=dissipated_w[k],
+            swr_in=swr_in[k], swr_out=swr_out[k], readings={**readings, **stress}))
+    return elements, warnings
+
+
 def solve_budget(station: Station) -> BudgetResult:
     """Solve the station's feed path at every requested frequency and split the losses.
 
@@ -334,32 +360,8 @@ def solve_budget(station: Station) -> BudgetResult:
     dissipated_w = _phase_mean(solution.dissipated_w, swr_only)
     db_below_radio = _phase_mean_db(solution.db_below_radio) if swr_only else solution.db_below_radio
 
-    def phase_mean(values):
-        return _phase_mean(values, swr_only)
-
-    elements, stress_warnings = [], []
-    for k, element in enumerate(station.feed):
-        readings = {}
-        if hasattr(element, "readings"):
-            readings = element.readings(solution.voltage_v[..., k, :], solution.current_a[..., k, :], phase_mean,
-                                        designs.get(k))
-        if element.kind == "line":
-            stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only,
-                                                station.duty_factor * station.transmit_fraction)
-        elif k in designs:
-            stress, warned = safety.tuner_stress(designs[k], solution.voltage_v[..., k, :], solution.current_a[..., k, :],
-                                                 element, station.labels, swr_only)
-        else:
-            stress, warned = {}, []
-        readings = {**readings, **stress}
-        stress_warnings += warned
-        elements.append(ElementBudget(
-            kind=element.kind, label=element.label,
-            loss_db=db_below_radio[k + 1] - db_below_radio[k],
-            matched_loss_db=np.broadcast_to(element.matched_loss_db(f), f.shape),
-            dissipated_w=dissipated_w[k],
-            swr_in=swr_in[k], swr_out=swr_out[k], readings=readings,
-        ))
+    elements, stress_warnings = _element_budgets(station, solution, designs, db_below_radio, dissipated_w,
+                                                 swr_in, swr_out, swr_only)
 
     if station.feed:
         swr_antenna = elements[-1].swr_out
