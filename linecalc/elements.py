@@ -12,6 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .cables import Cable
+from .lumped import part_impedance_ohm, series_abcd, shunt_abcd
 from .solver import ScaledAbcd, swr_from_rho, wave_powers
 from .tuner import (BUILTIN_MAX_SWR, TunerParts, TunerSolution, component_dissipation_w, design_builtin_tuner,
                     design_l_network, design_t_network)
@@ -207,50 +208,6 @@ def terminated_loss_db(abcd, z_load_ohm):
     v_in = abcd[..., 0, 0] * z + abcd[..., 0, 1]
     i_in = abcd[..., 1, 0] * z + abcd[..., 1, 1]
     return 10 * np.log10((v_in * i_in.conj()).real / z.real)
-
-
-def series_abcd(impedance_ohm):
-    """[[1, Z], [0, 1]]: an impedance in series. Pozar, 4th ed., Table 4.1."""
-    z = np.asarray(impedance_ohm, dtype=complex)
-    return _stack_abcd(1.0, z, 0.0, 1.0)
-
-
-def shunt_abcd(admittance_s):
-    """[[1, 0], [Y, 1]]: an admittance in shunt. Pozar, 4th ed., Table 4.1."""
-    y = np.asarray(admittance_s, dtype=complex)
-    return _stack_abcd(1.0, 0.0, y, 1.0)
-
-
-def part_impedance_ohm(frequency_hz, resistance_ohm=0.0, inductance_h=0.0, capacitance_f=None,
-                       inductor_q=np.inf, capacitor_q=np.inf):
-    """Impedance of a resistor, inductor and capacitor in series, each lossy part by its Q.
-
-    Parameters
-    ----------
-    frequency_hz : ndarray
-    resistance_ohm : float
-    inductance_h : float
-    capacitance_f : float or None
-        None for no capacitor (a short in its place).
-    inductor_q, capacitor_q : float
-        Unloaded Q; the loss is a series resistance X/Q [1].
-
-    Returns
-    -------
-    ndarray of complex
-        R + X_L (1/Q_L + j) + |X_C| (1/Q_C - j) [ohm].
-
-    References
-    ----------
-    Terman, Radio Engineers' Handbook (1943), section 2 (Q of coils and capacitors, series
-    equivalent resistance X/Q), from memory; the definition Q = X/R is standard.
-    """
-    omega = 2 * np.pi * np.asarray(frequency_hz, dtype=float)
-    z = resistance_ohm + omega * inductance_h * (1 / inductor_q + 1j)
-    if capacitance_f is not None:
-        x_c = 1 / (omega * capacitance_f)
-        z = z + x_c * (1 / capacitor_q - 1j)
-    return z
 
 
 @dataclass(frozen=True)

@@ -13,6 +13,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .lumped import capacitor_impedance_ohm, inductor_impedance_ohm, series_abcd, shunt_abcd
+
 # Unloaded Q of a good HF inductor and of an air or ceramic variable capacitor: common practice.
 INDUCTOR_Q = 100.0
 CAPACITOR_Q = 1000.0
@@ -40,66 +42,6 @@ _T_SLOTS = (("input_series_capacitor", "series", "capacitor"), ("shunt_inductor"
             ("output_series_capacitor", "series", "capacitor"))
 _UNIT_SUFFIX = {"inductor": "_h", "capacitor": "_f"}
 _LABEL = {"inductor": "L", "capacitor": "C"}
-
-
-def inductor_impedance_ohm(frequency_hz, inductance_h, q=INDUCTOR_Q):
-    """Impedance of a lossy inductor, Z = omega L (1/Q + j) [ohm] (R = omega L / Q in series).
-
-    Parameters
-    ----------
-    frequency_hz : array_like
-        Frequency [Hz].
-    inductance_h : array_like
-        Inductance [H]; broadcasts with ``frequency_hz``.
-    q : float
-        Unloaded Q, np.inf for an ideal part [1].
-
-    References
-    ----------
-    Pozar, Microwave Engineering, 4th ed., section 6.1 (series RLC circuit, Q = omega L / R).
-    """
-    reactance = 2 * np.pi * np.asarray(frequency_hz, dtype=float) * np.asarray(inductance_h, dtype=float)
-    return reactance * (1 / q + 1j)
-
-
-def capacitor_impedance_ohm(frequency_hz, capacitance_f, q=CAPACITOR_Q):
-    """Impedance of a lossy capacitor, Z = (1/(omega C)) (1/Q - j) [ohm] (ESR = 1/(omega C Q)).
-
-    Parameters
-    ----------
-    frequency_hz : array_like
-        Frequency [Hz].
-    capacitance_f : array_like
-        Capacitance [F], positive; broadcasts with ``frequency_hz``.
-    q : float
-        Unloaded Q, np.inf for an ideal part [1].
-
-    References
-    ----------
-    Pozar, Microwave Engineering, 4th ed., section 6.1 (series RLC circuit, Q = 1/(omega R C)).
-    """
-    reactance = 1 / (2 * np.pi * np.asarray(frequency_hz, dtype=float) * np.asarray(capacitance_f, dtype=float))
-    return reactance * (1 / q - 1j)
-
-
-def series_abcd(z_ohm):
-    """Chain matrix [[1, Z], [0, 1]] of a series impedance [ohm], shape (..., 2, 2).
-
-    References: Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1.
-    """
-    z = np.asarray(z_ohm, dtype=complex)
-    one, zero = np.ones_like(z), np.zeros_like(z)
-    return np.stack([np.stack([one, z], -1), np.stack([zero, one], -1)], -2)
-
-
-def shunt_abcd(y_s):
-    """Chain matrix [[1, 0], [Y, 1]] of a shunt admittance [S], shape (..., 2, 2).
-
-    References: Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1.
-    """
-    y = np.asarray(y_s, dtype=complex)
-    one, zero = np.ones_like(y), np.zeros_like(y)
-    return np.stack([np.stack([one, zero], -1), np.stack([y, one], -1)], -2)
 
 
 @dataclass(frozen=True)
@@ -420,17 +362,26 @@ def _t_best_at(c2, frequency_hz, z_load, r0, parts):
 def _design_t_flat(frequency_hz, z_load, r0, parts):
     """Scan the output capacitor on a log grid, refine by golden section, keep the least loss."""
     c2_grid = np.geomspace(*parts.value_range("capacitor"), T_SCAN_POINTS)
-    best = np.argmin(_t_best_at(c2_grid[:, None], frequency_hz, z_load, r0, parts)[0], axis=0)
+    grid_loss = _t_best_at(c2_grid[:, None], frequency_hz, z_load, r0, parts)[0]
+    best = np.argmin(grid_loss, axis=0)
+    # the least loss seen anywhere in the search, not only where the search ends: the loss need
+    # not be unimodal between grid points, and a bracket end may be the best there is
+    best_x = np.log(c2_grid[best])
+    best_loss = np.take_along_axis(grid_loss, best[None], axis=0)[0]
     low = np.log(c2_grid[np.maximum(best - 1, 0)])
     high = np.log(c2_grid[np.minimum(best + 1, T_SCAN_POINTS - 1)])
     inv_phi = (np.sqrt(5) - 1) / 2
     for _ in range(REFINE_ITERATIONS):  # golden section; both inner points evaluated afresh
         x1, x2 = high - inv_phi * (high - low), low + inv_phi * (high - low)
-        left = (_t_best_at(np.exp(x1), frequency_hz, z_load, r0, parts)[0]
-                <= _t_best_at(np.exp(x2), frequency_hz, z_load, r0, parts)[0])
+        loss1 = _t_best_at(np.exp(x1), frequency_hz, z_load, r0, parts)[0]
+        loss2 = _t_best_at(np.exp(x2), frequency_hz, z_load, r0, parts)[0]
+        for x, loss in ((x1, loss1), (x2, loss2)):
+            better = loss < best_loss
+            best_x, best_loss = np.where(better, x, best_x), np.where(better, loss, best_loss)
+        left = loss1 <= loss2
         high, low = np.where(left, x2, high), np.where(left, low, x1)
     candidates = np.stack([_t_best_at(c2, frequency_hz, z_load, r0, parts)[1]
-                           for c2 in (c2_grid[best], np.exp((low + high) / 2))])
+                           for c2 in (c2_grid[best], np.exp(best_x), np.exp((low + high) / 2))])
     values, found = _best_matched(_T_SLOTS, candidates, frequency_hz, z_load, r0, parts)
     if not np.all(found):
         axes = np.meshgrid(*(np.geomspace(*parts.value_range(kind), CLOSEST_GRID_POINTS) for _, _, kind in _T_SLOTS))

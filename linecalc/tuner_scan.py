@@ -10,13 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .tuner import (
-    MATCHED_SWR,
-    T_SCAN_POINTS,
-    capacitor_impedance_ohm,
-    inductor_impedance_ohm,
-    l_network_candidates,
-)
+from .lumped import capacitor_impedance_ohm, inductor_impedance_ohm
+from .tuner import MATCHED_SWR, T_SCAN_POINTS, l_network_candidates
 
 # Golden-section steps that refine the T network's output capacitor between grid points; 12
 # steps bring the loss within 1e-3 dB of the full design's 48 (measured on random loads).
