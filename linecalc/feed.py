@@ -118,7 +118,11 @@ def _inline_cable(doc, ctx, label):
     if "permittivity" in doc and "velocity_factor" in doc:
         raise ctx.error("give permittivity or velocity_factor, not both")
     if "velocity_factor" in doc:
-        permittivity = number(doc, "velocity_factor", ctx, low=0, high=1) ** -2
+        velocity_factor = number(doc, "velocity_factor", ctx, low=0, high=1)
+        try:
+            permittivity = velocity_factor ** -2
+        except OverflowError:  # below about 1e-154 the permittivity is past the largest float
+            raise ctx.child(doc, "velocity_factor").error(f"too small to compute with, got {velocity_factor!r}") from None
     elif "permittivity" in doc:
         permittivity = number(doc, "permittivity", ctx, low=1, low_open=False)
     else:
