@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV := .venv
 BIN := $(VENV)/bin
 
-.PHONY: demo test bench clean
+.PHONY: demo test test-long bench clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -24,6 +24,10 @@ demo: $(VENV)/.installed
 
 test: $(VENV)/.installed-test
 	$(BIN)/python -m pytest -q
+
+# The long checks the default run leaves out: the long fuzzing profile (random seeds) and slow tests.
+test-long: $(VENV)/.installed-test
+	$(BIN)/python -m pytest -q -m "fuzz_long or slow"
 
 bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_solver.py
