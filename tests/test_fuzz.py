@@ -460,8 +460,11 @@ def far_outside_any_station(station):
                   else _outside(antenna.swr, 1, 1e12))
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")  # only to classify a station whose solve has failed already
-        lines_db = sum(np.broadcast_to(element.matched_loss_db(station.frequency_hz), station.frequency_hz.shape)
-                       for element in station.feed if isinstance(element, Line))
+        try:
+            lines_db = sum(np.broadcast_to(element.matched_loss_db(station.frequency_hz), station.frequency_hz.shape)
+                           for element in station.feed if isinstance(element, Line))
+        except ArithmeticError:  # a cable whose constants overflow (a 1e300 m dielectric, say)
+            lines_db = np.inf
     checks.append(_outside(lines_db, 0, 1e3))
     for element in station.feed:
         if isinstance(element, (Line, Stub)):
@@ -724,6 +727,9 @@ PHYSICS = {
             "feed: [{line: {cable: rg-213, length: 109.3 m}}, {line: {length: 183 m, cable: {geometry: coax, "
             "inner_diameter: 3.906 mm, dielectric_diameter: 5.859 mm, permittivity: 7, loss_tangent: 0.04688}}}, "
             "{meter: {}}, {connector: {}}]"),
+    "coax dielectric diameter 1e300 mm (cables.py: D**2 overflows)":
+        GOOD.replace("cable: rg-213", "cable: {geometry: coax, inner_diameter: 3.9 mm, dielectric_diameter: 1e300 mm, "
+                     "permittivity: 1, loss_tangent: 0}"),
     "frequency 1e300 Hz (cables.py: line constants overflow)":
         GOOD.replace("[2 MHz]", "[1e300 Hz]").replace("{2 MHz: 50+j0}", "{1e300 Hz: 50}"),
     "loss point 1e-308 dB/100m (cables.py: the fit overflows while loading)":
