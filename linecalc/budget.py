@@ -293,6 +293,12 @@ def _phase_mean(values, swr_only):
     return values.mean(axis=0) if swr_only else values
 
 
+def _difference_db(after_db, before_db):
+    """after - before [dB]; undefined (NaN) where no power reaches either node (beyond a short)."""
+    dead = np.isinf(after_db) & np.isinf(before_db)
+    return np.where(dead, np.nan, after_db - np.where(dead, 0.0, before_db))
+
+
 def _element_budgets(station, solution, designs, db_below_radio, dissipated_w, swr_in, swr_out, swr_only):
     """Each element's loss, heat, SWR at its ports, readings (a meter's, a tuner's setting) and
     stress (a line's or a tuner part's voltage and current), with the warnings of the stress."""
@@ -314,7 +320,7 @@ def _element_budgets(station, solution, designs, db_below_radio, dissipated_w, s
             stress, warned = {}, []
         warnings += warned
         elements.append(ElementBudget(
-            kind=element.kind, label=element.label, loss_db=db_below_radio[k + 1] - db_below_radio[k],
+            kind=element.kind, label=element.label, loss_db=_difference_db(db_below_radio[k + 1], db_below_radio[k]),
             matched_loss_db=np.broadcast_to(element.matched_loss_db(f), np.shape(f)), dissipated_w=dissipated_w[k],
             swr_in=swr_in[k], swr_out=swr_out[k], readings={**readings, **stress}))
     return elements, warnings

@@ -303,7 +303,9 @@ class Meter:
         """What the meter shows, from the RMS phasors at its port: SWR against its impedance,
         forward, reflected and net power. ``phase_mean`` averages over an unknown load phase."""
         forward, reflected = wave_powers(voltage_v, current_a, self.impedance_ohm)
-        rho_magnitude = np.sqrt(reflected / forward)
+        # no wave at all (beyond thousands of dB, or a dead short ahead): the SWR is undefined
+        rho_magnitude = np.sqrt(np.divide(reflected, forward, out=np.full(np.shape(forward), np.nan),
+                                          where=forward > 0))
         return {"swr": swr_from_rho(phase_mean(rho_magnitude)), "forward_w": phase_mean(forward),
                 "reflected_w": phase_mean(reflected), "net_w": phase_mean(forward - reflected)}
 

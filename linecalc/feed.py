@@ -35,6 +35,12 @@ CHOKE_MIN_COMMON_MODE_OHM = 500.0
 BALUN_LOSS_DB = 0.2
 INDUCTOR_Q = 100.0
 CAPACITOR_Q = 1000.0
+# Limits past which a value is no station's: matched loss of a cable [dB/m], part Q, connectors
+# in one element, balun impedance ratio.
+LOSS_DB_PER_M = (1e-9, 1e3)
+Q_RANGE = (1.0, 1e6)
+MAX_CONNECTORS = 1000
+RATIO_RANGE = (1e-4, 1e4)
 TUNER_CAPACITANCE_F = (10e-12, 500e-12)
 TUNER_INDUCTANCE_H = (0.05e-6, 30e-6)
 TUNER_MAX_SWR = 3.0
@@ -85,6 +91,9 @@ def _inline_cable(doc, ctx, label):
                 raise where.error(str(exc)) from None
             if not loss > 0:
                 raise where.error(f"a cable loss is greater than zero, got {value!r}")
+            if not LOSS_DB_PER_M[0] <= loss <= LOSS_DB_PER_M[1]:
+                raise where.error(f"{value!r} is outside any real cable's loss ({LOSS_DB_PER_M[0]:g} to "
+                                  f"{LOSS_DB_PER_M[1]:g} dB/m)")
             return loss
 
         f, loss = frequency_table(doc["loss"], ctx.child(doc, "loss"), read_loss)
@@ -171,8 +180,8 @@ def _connector(doc, ctx, index, z_ref_ohm):
     mapping(doc or {}, ctx, optional=("count", "loss", "label"))
     doc = doc or {}
     count = doc.get("count", 1)
-    if isinstance(count, bool) or not isinstance(count, int) or count < 1:
-        raise ctx.child(doc, "count").error(f"count is a whole number of at least 1, got {count!r}")
+    if isinstance(count, bool) or not isinstance(count, int) or not 1 <= count <= MAX_CONNECTORS:
+        raise ctx.child(doc, "count").error(f"count is a whole number from 1 to {MAX_CONNECTORS}, got {count!r}")
     return Attenuating("connector", _label(doc, ctx, "connector", index), _loss(doc, ctx, CONNECTOR_LOSS_DB),
                        z_ref_ohm, count)
 
@@ -209,6 +218,8 @@ def _ratio(doc, ctx):
             raise ValueError
     except (ValueError, ZeroDivisionError):
         raise where.error(f"a ratio is written 4:1 or 4, got {value!r}") from None
+    if np.isfinite(ratio) and ratio > 0 and not RATIO_RANGE[0] <= ratio <= RATIO_RANGE[1]:
+        raise where.error(f"an impedance ratio from {RATIO_RANGE[0]:g} to {RATIO_RANGE[1]:g}, got {value!r}")
     if not (np.isfinite(ratio) and ratio > 0):
         raise where.error(f"an impedance ratio is greater than zero, got {value!r}")
     return ratio
@@ -235,7 +246,14 @@ def _meter(doc, ctx, index, z_ref_ohm):
 
 
 def _q(doc, ctx, key, default):
-    return number(doc, key, ctx, low=0) if key in doc else default
+    """An unloaded Q: above zero; at least `Q_RANGE`'s 1 and at most its 1e6 (a part of Q below 1
+    is mostly resistor, one above 1e6 is ideal to every digit shown)."""
+    if key not in doc:
+        return default
+    q = number(doc, key, ctx, low=0)
+    if not Q_RANGE[0] <= q <= Q_RANGE[1]:
+        raise ctx.child(doc, key).error(f"a Q from {Q_RANGE[0]:g} to {Q_RANGE[1]:g}, got {doc[key]!r}")
+    return q
 
 
 def _part(placement):

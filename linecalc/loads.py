@@ -51,10 +51,12 @@ def pchip_slopes(x, y):
     slopes = np.zeros_like(y)
     w1 = 2 * h[1:] + h[:-1]
     w2 = h[1:] + 2 * h[:-1]
-    same_sign = delta[:-1] * delta[1:] > 0
-    safe_prev = np.where(same_sign, delta[:-1], 1.0)
-    safe_next = np.where(same_sign, delta[1:], 1.0)
-    slopes[1:-1] = np.where(same_sign, (w1 + w2) / (w1 / safe_prev + w2 / safe_next), 0.0)
+    same_sign = np.sign(delta[:-1]) * np.sign(delta[1:]) > 0
+    # the weighted harmonic mean (w1 + w2) / (w1/d0 + w2/d1), written without dividing by a
+    # secant, which may be tiny
+    numerator = (w1 + w2) * delta[:-1] * delta[1:]
+    denominator = np.where(same_sign, w1 * delta[1:] + w2 * delta[:-1], 1.0)
+    slopes[1:-1] = np.where(same_sign, numerator / denominator, 0.0)
     slopes[0] = _end_slope(h[0], h[1], delta[0], delta[1])
     slopes[-1] = _end_slope(h[-1], h[-2], delta[-1], delta[-2])
     return slopes

@@ -192,8 +192,25 @@ def mapping(value, ctx, required=(), optional=()):
     return value
 
 
+# The largest magnitude a station file may give in each unit: far beyond any station (1 THz,
+# 1,000 km, 10 MW, ...), near enough that no product of them overflows a float downstream.
+MAGNITUDE_LIMITS = {"Hz": 1e12, "m": 1e6, "W": 1e7, "ohm": 1e9, "V": 1e9, "A": 1e6, "F": 1.0, "H": 1e3}
+# The smallest positive magnitude, likewise: below it a value is rounding, not a component.
+SMALLEST = {"Hz": 1.0, "m": 1e-6, "W": 1e-6, "ohm": 1e-9, "V": 1e-6, "A": 1e-9, "F": 1e-18, "H": 1e-15}
+
+
+def _within_limits(result, original, unit, where):
+    limit, smallest = MAGNITUDE_LIMITS.get(unit), SMALLEST.get(unit)
+    if limit is not None and abs(result) > limit:
+        raise where.error(f"{original!r} is beyond what linecalc handles (at most {limit:g} {unit})")
+    if smallest is not None and 0 < abs(result) < smallest:
+        raise where.error(f"{original!r} is too small to be real (at least {smallest:g} {unit}, or zero where "
+                          "zero is allowed)")
+    return result
+
+
 def quantity(parent, key, ctx, unit, *, positive=True, bare_unit=None):
-    """Read ``parent[key]`` as a quantity in ``unit``."""
+    """Read ``parent[key]`` as a quantity in ``unit``, within `MAGNITUDE_LIMITS`."""
     where = ctx.child(parent, key)
     try:
         result = parse_quantity(parent[key], unit, bare_unit=bare_unit)
@@ -201,7 +218,7 @@ def quantity(parent, key, ctx, unit, *, positive=True, bare_unit=None):
         raise where.error(str(exc)) from None
     if positive and not result > 0:
         raise where.error(f"must be greater than zero, got {parent[key]!r}")
-    return result
+    return _within_limits(result, parent[key], unit, where)
 
 
 def number(parent, key, ctx, *, low=None, high=None, low_open=True):
@@ -254,6 +271,7 @@ def frequency_table(table, ctx, read_value):
             raise where.error(str(exc)) from None
         if not frequency > 0:
             raise where.error(f"frequency must be greater than zero, got {key!r}")
+        _within_limits(frequency, key, "Hz", where)
         rows.append((frequency, read_value(value, where), where))
     rows.sort(key=lambda row: row[0])
     for (f1, _, _), (f2, _, where) in zip(rows, rows[1:]):

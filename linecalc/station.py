@@ -26,6 +26,10 @@ from .units import UnitError, parse_impedance
 MODE = "carrier"
 TRANSMIT_FRACTION = 1.0
 ANTENNA_GAIN_DBI = 2.15
+# Beyond these no antenna exists: refused, not warned about.
+GAIN_LIMITS_DBI = (-100.0, 100.0)
+# An SWR above this (|rho| within 2e-6 of 1) is a total reflection for every purpose here.
+MAX_SWR = 1e6
 
 
 def _read_impedance(value, ctx):
@@ -43,12 +47,21 @@ def _read_swr(value, ctx):
         raise ctx.error(f"an SWR is a plain number such as 1.8, got {value!r}")
     if value < 1:
         raise ctx.error(f"an SWR is 1 or more, got {value!r}")
+    if value > MAX_SWR:
+        raise ctx.error(f"an SWR above {MAX_SWR:g} is a total reflection; give the impedance instead, got {value!r}")
     return float(value)
 
 
 def _gain_dbi(doc, ctx):
-    """Antenna gain over isotropic: ``2.15 dBi`` or a bare number of dBi; default `ANTENNA_GAIN_DBI`."""
-    return decibels(doc, "gain", ctx, "dBi") if "gain" in doc else ANTENNA_GAIN_DBI
+    """Antenna gain over isotropic: ``2.15 dBi`` or a bare number of dBi; default `ANTENNA_GAIN_DBI`.
+    Outside `GAIN_LIMITS_DBI` it is refused (the budget warns outside the plausible -10 to 30)."""
+    if "gain" not in doc:
+        return ANTENNA_GAIN_DBI
+    gain = decibels(doc, "gain", ctx, "dBi")
+    if not GAIN_LIMITS_DBI[0] <= gain <= GAIN_LIMITS_DBI[1]:
+        raise ctx.child(doc, "gain").error(f"a gain from {GAIN_LIMITS_DBI[0]:g} to {GAIN_LIMITS_DBI[1]:g} dBi, "
+                                           f"got {doc['gain']!r}")
+    return gain
 
 
 def _touchstone(doc, ctx, file):

@@ -705,8 +705,9 @@ def test_fixed_loader_faults_end_in_one_station_error(case):
     assert message.startswith(f"{FILE}:{line}: ") and words in message, message
 
 
-# Faults in the physics, below the loader: reported, not fixed here. Each case ends in a
-# RuntimeWarning (an error under pytest) or an OverflowError instead of a finite result.
+# Faults the fuzzer found below the loader (the module named in each case). Each once ended in
+# a RuntimeWarning (an error under pytest) or an OverflowError; now each is refused by the
+# loader's limits (schema.MAGNITUDE_LIMITS and the per-key ranges) or solved to a finite result.
 PHYSICS = {
     "short antenna, then a lossless element (budget.py: inf - inf in the element loss)":
         GOOD.replace("50+j0", "0+j0").replace("10 m}}]", "10 m}}, {meter: {}}]"),
@@ -738,8 +739,7 @@ PHYSICS = {
 }
 
 
-@pytest.mark.parametrize("case", [pytest.param(PHYSICS[name], id=name, marks=pytest.mark.xfail(
-    strict=False, reason="a fault in the physics below the loader, reported")) for name in PHYSICS])
+@pytest.mark.parametrize("case", [pytest.param(PHYSICS[name], id=name) for name in PHYSICS])
 def test_known_physics_faults_end_in_a_result_or_an_error(case):
     try:
         result = solve_budget(parse_station_text(case, FILE))
