@@ -6,6 +6,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+import warnings
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
@@ -410,9 +411,13 @@ def main(argv=None) -> int:
     from .station import StationError
 
     try:
-        return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
-                "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
-                "cables": _run_cables}[args.command](args)
+        with warnings.catch_warnings():
+            # a numerical warning (overflow, 0/0) means a number that cannot be trusted: stop
+            # with an internal error rather than print it
+            warnings.simplefilter("error", RuntimeWarning)
+            return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
+                    "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
+                    "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT
