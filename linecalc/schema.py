@@ -252,7 +252,10 @@ def decibels(parent, key, ctx, suffix):
 
 
 def string(parent, key, ctx):
+    """Text, such as a name or a label; a plain whole number (``label: 2``) is taken as its text."""
     value = parent[key]
+    if isinstance(value, int) and not isinstance(value, bool):
+        value = str(value)
     if not isinstance(value, str) or not value.strip():
         raise ctx.child(parent, key).error(f"expected text, got {value!r}")
     return value.strip()
