@@ -20,7 +20,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from linecalc.cli import main
+from cli_support import run, write
 from linecalc.library import load_library
 from linecalc.station import load_station
 
@@ -30,19 +30,6 @@ ROOT = Path(__file__).resolve().parent.parent
 STATIONS = ROOT / "stations"
 LINECALC = Path(sys.executable).parent / "linecalc"
 Z_REF_OHM = 50.0
-
-
-def run(capsys, *args):
-    """linecalc in-process: (exit status, stdout, stderr)."""
-    code = main([str(a) for a in args])
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def write(folder, name, text):
-    path = folder / name
-    path.write_text(text)
-    return path
 
 
 def one_error_line(err, file):

@@ -17,25 +17,12 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from linecalc.cli import main
+from cli_support import run, write
 
 ROOT = Path(__file__).resolve().parent.parent
 LINECALC = Path(sys.executable).parent / "linecalc"
 SPEED_OF_LIGHT_M_PER_S = 299_792_458.0  # exact, SI definition of the metre
 ETA0_OHM = 376.730313  # free-space impedance, CODATA 2018 (mu0 c)
-
-
-def run(capsys, *args):
-    """linecalc in-process: (exit status, stdout, stderr)."""
-    code = main([str(a) for a in args])
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def write(folder, name, text):
-    path = folder / name
-    path.write_text(text)
-    return path
 
 
 def budget_json(capsys, station):
