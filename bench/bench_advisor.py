@@ -8,15 +8,15 @@ The scan: a 450-ohm window-line class feeder from 5 to 60 m in 1 cm steps (5,501
 bands from 160 m to 6 m at 21 points each (231 frequencies), a T tuner: 1.27 million
 (length, frequency) evaluations.
 
-- The whole scan: `linecalc.advisor.advise_length`, line solve, tuner test, voltages, windows.
+- The whole scan: `linecalc.physics.length_scan.advise_length`, line solve, tuner test, voltages, windows.
 - The line-solve part, like with like: the impedance the tuner sees for every length and
-  frequency. linecalc's stage (`linecalc.advisor.feeder_waves`, chunked as the scan runs it);
+  frequency. linecalc's stage (`linecalc.physics.length_scan.feeder_waves`, chunked as the scan runs it);
   scikit-rf networks, one line network per length cascaded with the load, as a user of it would
   write (a subset of lengths, extrapolated per length); the numpy floor, the chain-matrix input
   impedance written inline over the whole (lengths, frequencies) array at once, and the same
   in its reflection form (one exponential, as linecalc's stage computes it).
-- The tuner part: `linecalc.tuner_scan.t_network_least_loss` against the full design
-  `linecalc.tuner.design_t_network` (a subset, extrapolated per evaluation).
+- The tuner part: `linecalc.physics.matching_fast.t_network_least_loss` against the full design
+  `linecalc.physics.matching.design_t_network` (a subset, extrapolated per evaluation).
 """
 from __future__ import annotations
 
@@ -24,8 +24,11 @@ import time
 
 import numpy as np
 
-from linecalc import advisor, bands, tuner, tuner_scan
-from linecalc.cables import cable_from_points
+from linecalc.physics import length_scan as advisor
+from linecalc.physics import bands
+from linecalc.physics import matching as tuner
+from linecalc.physics import matching_fast as tuner_scan
+from linecalc.physics.cables import cable_from_points
 
 LADDER_LIKE = cable_from_points("bench-ladder", "450-ohm window line, bench only", "balanced", 450.0, 0.91,
                                 [1e6, 10e6, 100e6], [0.0006, 0.002, 0.008])

@@ -20,10 +20,10 @@ BIN = Path(sys.executable).parent
 LONG_PATH = """
 import time, resource
 import numpy as np
-from linecalc.budget import Station, solve_budget
-from linecalc.elements import Attenuating, Line
-from linecalc.library import load_library
-from linecalc.loads import ImpedanceTable
+from linecalc.studies.budget import Station, solve_budget
+from linecalc.elements.parts import Attenuating, Line
+from linecalc.io.cable_library import load_library
+from linecalc.physics.loads import ImpedanceTable
 
 cables = load_library()
 feed = []

@@ -13,9 +13,9 @@ import time
 
 import numpy as np
 
-from linecalc.cables import cable_from_points
-from linecalc.elements import Line, line_abcd
-from linecalc.solver import solve_path
+from linecalc.physics.cables import cable_from_points
+from linecalc.elements.parts import Line, line_abcd
+from linecalc.physics.cascade import solve_path
 
 RG213_LIKE = cable_from_points("bench-coax", "50-ohm solid-PE coax, bench only", "coax", 50.0, 0.66,
                                [1e6, 10e6, 100e6, 1000e6], [0.007, 0.022, 0.072, 0.27])

@@ -6,7 +6,7 @@ Usage (from the repository root, with the project's Python):
     python cable_data/derive_attenuation.py --write    # also rewrite the `points:` blocks
     python cable_data/derive_attenuation.py --strands  # the field-diameter ratios of stranded wire
 
-The attenuation is 20 log10(e) Re(gamma) from `linecalc.cables.coax_rlgc` or `two_wire_rlgc`
+The attenuation is 20 log10(e) Re(gamma) from `linecalc.physics.cables.coax_rlgc` or `two_wire_rlgc`
 through `line_constants`, at the frequencies listed in `FREQUENCIES_MHZ`; a stranded conductor
 enters with its field diameter (overall diameter times `field_diameter_ratio`) and every
 conductor with its `resistance_factor`. README.md explains the format and the sources.
@@ -20,8 +20,9 @@ from pathlib import Path
 
 import numpy as np
 
-from linecalc import cables, library
-from linecalc.units import parse_loss_db_per_m, parse_quantity
+from linecalc.physics import cables
+from linecalc.io import cable_library as library
+from linecalc.io.units import parse_loss_db_per_m, parse_quantity
 
 FOLDER = Path(__file__).resolve().parent
 # Frequencies of the tables [MHz]: coax across 1 to 1000 MHz; balanced lines to 450 MHz, and

@@ -98,8 +98,8 @@ def build_parser() -> argparse.ArgumentParser:
 
 def _solve(station):
     """Solve a loaded station; a station that cannot be solved as described is bad input."""
-    from .budget import BudgetError, solve_budget
-    from .station import StationError
+    from linecalc.studies.budget import BudgetError, solve_budget
+    from linecalc.io.station_file import StationError
 
     try:
         return solve_budget(station)
@@ -120,9 +120,9 @@ def _station_paths(arguments):
 
 def _sweep(station, points):
     """Every band of the station edge to edge; a station that cannot be swept is bad input."""
-    from .bandsweep import solve_band_sweeps
-    from .budget import BudgetError
-    from .station import StationError
+    from linecalc.studies.band_sweep import solve_band_sweeps
+    from linecalc.studies.budget import BudgetError
+    from linecalc.io.station_file import StationError
 
     try:
         return solve_band_sweeps(station, points)[1]
@@ -134,7 +134,7 @@ def _export_radio(args, station, result, sweeps):
     """--radio-s1p: the impedance the radio sees, across the sweep if there is one."""
     import numpy as np
 
-    from .station import input_files
+    from linecalc.io.station_file import input_files
 
     if result.z_radio_ohm is None:
         raise OptionError("--radio-s1p: an antenna given by SWR alone has no phase, so no impedance at the radio")
@@ -154,8 +154,8 @@ def _export_radio(args, station, result, sweeps):
 def _run_budget(args) -> int:
     """One station: its result, or its error. Several: every result that can be had, each error on
     stderr, and exit status 2 if any station failed."""
-    from . import report
-    from .station import StationError, load_station
+    from linecalc.render import tables as report
+    from linecalc.io.station_file import StationError, load_station
 
     paths = _station_paths(args.station)
     if not paths:
@@ -204,12 +204,12 @@ class OptionError(ValueError):
 
 def _compare_spec(args, spec):
     """The station file's compare: key, extended by the command-line options."""
-    from .compare import CompareSpec
-    from .units import UnitError, parse_quantity
+    from linecalc.studies.compare import CompareSpec
+    from linecalc.io.units import UnitError, parse_quantity
 
     cables = tuple(spec.cables) if spec else ()
     if args.cable:
-        from . import library
+        from linecalc.io import cable_library as library
 
         known = library.load_library()
         for cable_id in args.cable:
@@ -232,10 +232,10 @@ def _compare_spec(args, spec):
 
 
 def _run_compare(args) -> int:
-    from . import report
-    from .budget import BudgetError
-    from .compare import CompareError, alternatives_from_spec, compare
-    from .station import StationError, load_station_and_compare
+    from linecalc.render import tables as report
+    from linecalc.studies.budget import BudgetError
+    from linecalc.studies.compare import CompareError, alternatives_from_spec, compare
+    from linecalc.io.station_file import StationError, load_station_and_compare
 
     station, spec = load_station_and_compare(args.station)
     spec = _compare_spec(args, spec)
@@ -254,8 +254,8 @@ def _run_compare(args) -> int:
 
 
 def _run_safety(args) -> int:
-    from . import report
-    from .station import load_station
+    from linecalc.render import tables as report
+    from linecalc.io.station_file import load_station
 
     result = _solve(load_station(args.station))
     if args.format == "json":
@@ -269,7 +269,7 @@ def _run_safety(args) -> int:
 
 def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
     """Write a Touchstone one-port atomically; never over an input, over an output only with --force."""
-    from .touchstone import TouchstoneWriteError, write_one_port
+    from linecalc.io.touchstone import TouchstoneWriteError, write_one_port
 
     try:
         write_one_port(path, frequency_hz, z_ohm, z_ref_ohm, comment, force=force, protected=inputs)
@@ -278,10 +278,10 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
 
 
 def _run_feedpoint(args) -> int:
-    from . import report
-    from .budget import BudgetError, recover_feedpoint
-    from .loads import ImpedanceTable, MeasuredAntenna
-    from .station import StationError, input_files, load_station
+    from linecalc.render import tables as report
+    from linecalc.studies.budget import BudgetError, recover_feedpoint
+    from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna
+    from linecalc.io.station_file import StationError, input_files, load_station
 
     station = load_station(args.station)
     antenna = station.antenna
@@ -331,7 +331,7 @@ class _Progress:
 
 
 def _length_option(name, text):
-    from .units import UnitError, parse_quantity
+    from linecalc.io.units import UnitError, parse_quantity
 
     try:
         return parse_quantity(text, "m")
@@ -340,11 +340,11 @@ def _length_option(name, text):
 
 
 def _run_advise(args) -> int:
-    from . import report
-    from .advice import advise_station
-    from .advisor import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
-    from .budget import BudgetError
-    from .station import StationError, load_station
+    from linecalc.render import tables as report
+    from linecalc.studies.length_advice import advise_station
+    from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
+    from linecalc.studies.budget import BudgetError
+    from linecalc.io.station_file import StationError, load_station
 
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
@@ -369,9 +369,9 @@ def _run_advise(args) -> int:
 
 
 def _run_plot(args) -> int:
-    from . import figures
-    from .budget import BudgetError
-    from .station import StationError, load_station_and_compare
+    from linecalc.studies import figure_data as figures
+    from linecalc.studies.budget import BudgetError
+    from linecalc.io.station_file import StationError, load_station_and_compare
 
     station, spec = load_station_and_compare(args.station)
     try:
@@ -390,7 +390,8 @@ def _run_cables(args) -> int:
 
     import numpy as np
 
-    from . import library, report
+    from linecalc.io import cable_library as library
+    from linecalc.render import tables as report
 
     cables = library.load_library()
     frequency_hz = np.array(LISTING_FREQUENCIES_HZ)
@@ -408,7 +409,7 @@ def _run_cables(args) -> int:
 
 def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
-    from .station import StationError
+    from linecalc.io.station_file import StationError
 
     try:
         with warnings.catch_warnings():

@@ -28,10 +28,10 @@ from pathlib import Path
 
 import numpy as np
 
-from linecalc.deembed import embed_impedance
-from linecalc.elements import Line
-from linecalc.library import load_library
-from linecalc.touchstone import write_one_port
+from linecalc.physics.deembed import embed_impedance
+from linecalc.elements.parts import Line
+from linecalc.io.cable_library import load_library
+from linecalc.io.touchstone import write_one_port
 
 OUTPUT = Path(__file__).resolve().parent / "demo-shack-sweep.s1p"
 RESONANCE_HZ = 7.1e6

@@ -11,9 +11,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from linecalc.budget import solve_budget
-from linecalc.elements import Line
-from linecalc.station import load_station
+from linecalc.studies.budget import solve_budget
+from linecalc.elements.parts import Line
+from linecalc.io.station_file import load_station
 
 ROOT = Path(__file__).resolve().parent.parent
 LINECALC = Path(sys.executable).parent / "linecalc"

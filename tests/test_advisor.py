@@ -1,7 +1,7 @@
-"""Tests of linecalc.advisor: the feeder-length scan, its tuner test, the line voltage and bad input.
+"""Tests of linecalc.physics.length_scan: the feeder-length scan, its tuner test, the line voltage and bad input.
 
 Expected values come from other methods than the advisor's: the full tuner design
-(`linecalc.tuner.design_t_network` / `design_l_network`, with their own search) inside the
+(`linecalc.physics.matching.design_t_network` / `design_l_network`, with their own search) inside the
 budget's chain-matrix cascade, solved one length at a time; the line voltage sampled every
 centimetre by that cascade; textbook closed forms for the standing wave on a lossless line.
 """
@@ -12,7 +12,14 @@ import tracemalloc
 import numpy as np
 import pytest
 
-from linecalc import advisor, bands, budget, cables, elements, loads, tuner, tuner_scan
+from linecalc.physics import length_scan as advisor
+from linecalc.physics import bands
+from linecalc.studies import budget
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import loads
+from linecalc.physics import matching as tuner
+from linecalc.physics import matching_fast as tuner_scan
 
 # A two-wire line of 1.6 mm copper wires at 25 mm spacing (an input for the checks, about
 # 400 ohm, not a claim about any product).

@@ -27,8 +27,9 @@ import scipy.special
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from linecalc import cables, library
-from linecalc.units import parse_loss_db_per_m, parse_quantity
+from linecalc.physics import cables
+from linecalc.io import cable_library as library
+from linecalc.io.units import parse_loss_db_per_m, parse_quantity
 
 skrf = pytest.importorskip("skrf")
 

@@ -9,11 +9,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from linecalc import library
-from linecalc.budget import solve_budget
-from linecalc.compare import CompareError, alternatives_from_spec, compare, CompareSpec
-from linecalc.elements import closed_form_line_loss_db
-from linecalc.station import load_station, load_station_and_compare, parse_station_text
+from linecalc.io import cable_library as library
+from linecalc.studies.budget import solve_budget
+from linecalc.studies.compare import CompareError, alternatives_from_spec, compare, CompareSpec
+from linecalc.elements.parts import closed_form_line_loss_db
+from linecalc.io.station_file import load_station, load_station_and_compare, parse_station_text
 
 ROOT = Path(__file__).resolve().parent.parent
 LINECALC = Path(sys.executable).parent / "linecalc"

@@ -14,8 +14,9 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import minimize_scalar
 
-from linecalc import deembed, elements
-from linecalc.cables import Cable
+from linecalc.physics import deembed
+from linecalc.elements import parts as elements
+from linecalc.physics.cables import Cable
 
 skrf = pytest.importorskip("skrf")
 

@@ -17,9 +17,13 @@ import skrf
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from linecalc import budget, cables, elements, loads, tuner
-from linecalc.library import load_library
-from linecalc.station import parse_station_text
+from linecalc.studies import budget
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import loads
+from linecalc.physics import matching as tuner
+from linecalc.io.cable_library import load_library
+from linecalc.io.station_file import parse_station_text
 
 DB_PER_NEPER = 20 * np.log10(np.e)
 SPEED_OF_LIGHT = 299_792_458.0  # m/s, exact (SI definition)

@@ -94,7 +94,7 @@ def test_bad_element_setting_exits_2_with_file_line_and_path(case, tmp_path):
 def test_unquoted_ratio_is_read_as_written(written, ratio):
     # README: `ratio` is written 4:1 or 4. YAML 1.1 would read an unquoted 4:1 as the base-60
     # integer 241 (and 1:4 as 64); a 4:1 balun must stay a 4:1 balun.
-    from linecalc.station import parse_station_text
+    from linecalc.io.station_file import parse_station_text
 
     station = parse_station_text(GOOD.replace('ratio: "1:1"', f"ratio: {written}"))
     balun = next(e for e in station.feed if e.kind == "balun")

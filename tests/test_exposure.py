@@ -1,4 +1,4 @@
-"""Checks of linecalc.exposure: duty factors, exposure limits, far-field distances.
+"""Checks of linecalc.physics.exposure: duty factors, exposure limits, far-field distances.
 
 Expected values are the published tables evaluated by hand (numbers written out below) and the
 OET Bulletin 65 far-field formula worked by hand; the budget checks use the loss budget, a
@@ -9,7 +9,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc import budget, cables, elements, exposure, loads
+from linecalc.studies import budget
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import exposure
+from linecalc.physics import loads
 
 # 1 mW/cm^2 = 1e-3 W / 1e-4 m^2 = 10 W/m^2 (SI prefixes).
 W_PER_M2_PER_MW_PER_CM2 = 10.0

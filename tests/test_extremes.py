@@ -9,12 +9,12 @@ import itertools
 import numpy as np
 import pytest
 
-from linecalc.budget import BudgetError, Station, solve_budget
-from linecalc.cables import two_wire_from_geometry
-from linecalc.elements import Line
-from linecalc.library import load_library
-from linecalc.loads import ImpedanceTable
-from linecalc.station import StationError, parse_station_text
+from linecalc.studies.budget import BudgetError, Station, solve_budget
+from linecalc.physics.cables import two_wire_from_geometry
+from linecalc.elements.parts import Line
+from linecalc.io.cable_library import load_library
+from linecalc.physics.loads import ImpedanceTable
+from linecalc.io.station_file import StationError, parse_station_text
 
 FREQUENCY_HZ = np.geomspace(100e3, 3e9, 41)
 Z_REF = 50.0

@@ -21,8 +21,8 @@ import numpy as np
 import pytest
 
 from cli_support import run, write
-from linecalc.library import load_library
-from linecalc.station import load_station
+from linecalc.io.cable_library import load_library
+from linecalc.io.station_file import load_station
 
 skrf = pytest.importorskip("skrf")
 

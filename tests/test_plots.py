@@ -1,4 +1,4 @@
-"""Tests of linecalc.plots: each file is a valid PNG or SVG of the stated size, the drawn data are
+"""Tests of linecalc.render.plots: each file is a valid PNG or SVG of the stated size, the drawn data are
 the computed data (read back from the artists), and files are written atomically.
 
 File formats are checked against their specifications: PNG, ISO/IEC 15948:2004 (W3C PNG
@@ -15,7 +15,14 @@ from xml.etree import ElementTree
 import numpy as np
 import pytest
 
-from linecalc import advisor, bands, budget, cables, elements, loads, plots, tuner
+from linecalc.physics import length_scan as advisor
+from linecalc.physics import bands
+from linecalc.studies import budget
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import loads
+from linecalc.render import plots
+from linecalc.physics import matching as tuner
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # ISO/IEC 15948, section 5.2
 DB_PER_NEPER = 20 * np.log10(np.e)    # 20 log10(e) dB per neper (definition of the neper)
@@ -261,6 +268,6 @@ def test_bad_format_and_missing_folder(tmp_path, coax_result):
 
 
 def test_importing_plots_does_not_import_matplotlib():
-    code = "import sys, linecalc.plots; print('matplotlib' in sys.modules)"
+    code = "import sys, linecalc.render.plots; print('matplotlib' in sys.modules)"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"

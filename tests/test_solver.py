@@ -13,7 +13,11 @@ import skrf
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-from linecalc import budget, cables, elements, loads, solver
+from linecalc.studies import budget
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import loads
+from linecalc.physics import cascade as solver
 
 # Seeded, bounded property runs: the same examples every run, each test well under a second.
 PROPERTY_SETTINGS = settings(derandomize=True, database=None, max_examples=150, deadline=None,

@@ -4,8 +4,8 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc.budget import solve_budget
-from linecalc.station import StationError, parse_station_text
+from linecalc.studies.budget import solve_budget
+from linecalc.io.station_file import StationError, parse_station_text
 
 METRES = """\
 name: Unit test

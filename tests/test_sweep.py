@@ -10,8 +10,12 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc import deembed, elements, loads, solver, sweep
-from linecalc.cables import Cable
+from linecalc.physics import deembed
+from linecalc.elements import parts as elements
+from linecalc.physics import loads
+from linecalc.physics import cascade as solver
+from linecalc.physics import swr_curve as sweep
+from linecalc.physics.cables import Cable
 
 Z_REF_OHM = 50.0
 # A 50-ohm coax of the RG-213 class by its loss terms (inputs for these checks, as in

@@ -17,9 +17,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from linecalc import deembed, elements
-from linecalc.library import load_library
-from linecalc.touchstone import (
+from linecalc.physics import deembed
+from linecalc.elements import parts as elements
+from linecalc.io.cable_library import load_library
+from linecalc.io.touchstone import (
     TouchstoneError,
     TouchstoneWriteError,
     read_one_port,
@@ -197,7 +198,7 @@ def test_without_scikit_rf_the_error_says_so(tmp_path, monkeypatch):
 
 def test_modules_do_not_import_scikit_rf():
     # the plain budget must not pay scikit-rf's import cost
-    code = ("import sys, linecalc.touchstone, linecalc.deembed, linecalc.sweep; "
+    code = ("import sys, linecalc.io.touchstone, linecalc.physics.deembed, linecalc.physics.swr_curve; "
             "print('skrf' in sys.modules)")
     result = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert result.stdout.strip() == "False"

@@ -1,10 +1,11 @@
-"""Tests of linecalc.tuner: L and T matching networks and a radio's built-in tuner."""
+"""Tests of linecalc.physics.matching: L and T matching networks and a radio's built-in tuner."""
 import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from linecalc import solver, tuner
+from linecalc.physics import cascade as solver
+from linecalc.physics import matching as tuner
 
 WIDE = {"capacitance_min_f": 1e-18, "capacitance_max_f": 1.0, "inductance_min_h": 1e-15, "inductance_max_h": 1e3}
 HF = {"capacitance_min_f": 10e-12, "capacitance_max_f": 500e-12, "inductance_min_h": 0.1e-6, "inductance_max_h": 30e-6}

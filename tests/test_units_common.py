@@ -7,7 +7,7 @@ from pathlib import Path
 
 import pytest
 
-from linecalc.units import COMMON_UNITS, UnitError, parse_quantity, registry
+from linecalc.io.units import COMMON_UNITS, UnitError, parse_quantity, registry
 
 ROOT = Path(__file__).resolve().parent.parent
 

@@ -7,8 +7,10 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc import bands, loads, units
-from linecalc.units import UnitError
+from linecalc.physics import bands
+from linecalc.physics import loads
+from linecalc.io import units
+from linecalc.io.units import UnitError
 
 FOOT_M = 0.3048  # exactly: NIST SP 811 (2008), appendix B.8 (foot, international)
 MHZ = 1e6  # SI prefix mega = 10^6: SI Brochure, 9th ed. (2019), table 7

@@ -1,4 +1,4 @@
-"""Checks of linecalc.voltage: voltage and current along lines, ratings, tuner-part stress.
+"""Checks of linecalc.physics.voltage: voltage and current along lines, ratings, tuner-part stress.
 
 Expected values come from the closed-form standing wave of a lossless or low-loss line (Pozar,
 Microwave Engineering, 4th ed., section 2.3), from the path solver's chain-matrix cascade, from
@@ -10,7 +10,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc import cables, elements, solver, tuner, voltage
+from linecalc.physics import cables
+from linecalc.elements import parts as elements
+from linecalc.physics import cascade as solver
+from linecalc.physics import matching as tuner
+from linecalc.physics import voltage
 
 P_W = 100.0
 Z0_OHM = 50.0

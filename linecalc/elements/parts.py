@@ -11,10 +11,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .cables import Cable
-from .lumped import part_impedance_ohm, series_abcd, shunt_abcd
-from .solver import ScaledAbcd, swr_from_rho, wave_powers
-from .tuner import (BUILTIN_MAX_SWR, TunerParts, TunerSolution, component_dissipation_w, design_builtin_tuner,
+from linecalc.physics.cables import Cable
+from linecalc.physics.lumped import part_impedance_ohm, series_abcd, shunt_abcd
+from linecalc.physics.cascade import ScaledAbcd, swr_from_rho, wave_powers
+from linecalc.physics.matching import (BUILTIN_MAX_SWR, TunerParts, TunerSolution, component_dissipation_w, design_builtin_tuner,
                     design_l_network, design_t_network)
 
 DB_PER_NEPER = 20 * np.log10(np.e)

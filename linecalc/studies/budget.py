@@ -9,9 +9,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import deembed, safety
-from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
-from .solver import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
+from linecalc.physics import deembed
+from linecalc.studies import stress as safety
+from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
+from linecalc.physics.cascade import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
 # converges geometrically, so 180 points (2 degree steps) average to rounding and bound the

@@ -18,8 +18,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .budget import BudgetResult, Station, solve_budget
-from .elements import Attenuating, Line, Transformer, closed_form_line_loss_db
+from linecalc.studies.budget import BudgetResult, Station, solve_budget
+from linecalc.elements.parts import Attenuating, Line, Transformer, closed_form_line_loss_db
 
 # Loss of the balun or choke inserted by a change of line kind [dB]: the station-file defaults.
 INSERTED_BALUN_LOSS_DB = 0.2

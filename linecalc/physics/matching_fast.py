@@ -1,6 +1,6 @@
 """Least tuner loss over many loads at once: whether an L or T network matches, and at what loss.
 
-The designs of `linecalc.tuner` choose and describe a setting per load; scanning a feeder's
+The designs of `linecalc.physics.matching` choose and describe a setting per load; scanning a feeder's
 length needs only two answers per load, for a million loads: can the tuner match, and what is
 its least loss. These functions give them with the same closed forms and the same output
 capacitor grid as the full designs, in real arithmetic, without the full designs' last resort
@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .lumped import capacitor_impedance_ohm, inductor_impedance_ohm
-from .tuner import MATCHED_SWR, T_SCAN_POINTS, l_network_candidates
+from linecalc.physics.lumped import capacitor_impedance_ohm, inductor_impedance_ohm
+from linecalc.physics.matching import MATCHED_SWR, T_SCAN_POINTS, l_network_candidates
 
 # Golden-section steps that refine the T network's output capacitor between grid points; 12
 # steps bring the loss within 1e-3 dB of the full design's 48 (measured on random loads).
@@ -28,7 +28,7 @@ class _TLossRatio:
 
     The output capacitor turns the load into z2 (admittance y2 = g - j b); the input capacitor
     and the shunt inductor are an L section (series part toward the input) in closed form with
-    the losses, the quadratic that `linecalc.tuner` solves: Re((1 - j/Q_C) / (y2 + u k)) = R0 for
+    the losses, the quadratic that `linecalc.physics.matching` solves: Re((1 - j/Q_C) / (y2 + u k)) = R0 for
     the shunt admittance u k, k = 1/(1/Q_L + j), here in real arithmetic: a2 u^2 + a1 u + a0 = 0.
     A root counts where the inductance 1/(omega u) and the series reactance
     -Im(1/(y2 + u k)) = Im(y2 + u k) / |y2 + u k|^2 are in range. The input is then exactly R0,
@@ -143,7 +143,7 @@ def t_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
         Impedance at the tuner's output [ohm].
     r0_ohm : float
         Reference resistance at its input [ohm].
-    parts : linecalc.tuner.TunerParts
+    parts : linecalc.physics.matching.TunerParts
 
     Returns
     -------
@@ -158,7 +158,7 @@ def t_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
 
     Notes
     -----
-    The scan of `linecalc.tuner.design_t_network`: the output capacitor on the same
+    The scan of `linecalc.physics.matching.design_t_network`: the output capacitor on the same
     ``T_SCAN_POINTS`` log-spaced values, the other two parts in closed form; then a golden-section
     refinement of ``T_REFINE_ITERATIONS`` steps (one evaluation each) between the best value's
     grid neighbours, where the full design takes 48. The full design's last resort, a search for
@@ -226,10 +226,10 @@ def l_network_least_loss(frequency_hz, z_load_ohm, r0_ohm, parts):
 
     Notes
     -----
-    Every setting of `linecalc.tuner.l_network_candidates` and the bypass, each driven with the
+    Every setting of `linecalc.physics.matching.l_network_candidates` and the bypass, each driven with the
     load: with 1 A in the load, a shunt part adds V/Z to the current and a series part adds Z I
     to the voltage; loss 10 log10(Re(V I*) / Re(z_load)), kept where the input SWR is at most
-    ``MATCHED_SWR``. This is `linecalc.tuner.design_l_network` without its closest-setting
+    ``MATCHED_SWR``. This is `linecalc.physics.matching.design_l_network` without its closest-setting
     search: matched here means matched there, and the loss is the same.
 
     References

@@ -10,7 +10,7 @@ coefficient at the measuring point, ``rho_measured``, is against the real ``z_re
 instrument's reference resistance); at the antenna, ``rho_antenna`` is against
 ``z0_antenna_ohm``, which may be complex (the characteristic impedance of the element that
 feeds the antenna, as the budget reports ``swr_antenna``) and defaults to ``z_ref_ohm``.
-rho = (Z - Z0)/(Z + Z0) throughout, written in V and I as in `linecalc.solver.reflection`.
+rho = (Z - Z0)/(Z + Z0) throughout, written in V and I as in `linecalc.physics.cascade.reflection`.
 
 Working in rho rather than impedance keeps opens and shorts finite; the impedance functions
 accept and return an infinite impedance for an open.
@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .solver import swr_from_rho
+from linecalc.physics.cascade import swr_from_rho
 
 # Phase samples of a magnitude-only reading: one per degree. The least and most |rho| are exact
 # (closed form); only the phase-mean |rho| comes from the samples.

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .cables import EPSILON_0, MU_0, SPEED_OF_LIGHT
+from linecalc.physics.cables import EPSILON_0, MU_0, SPEED_OF_LIGHT
 
 CAUTIONS = (
     "These figures are estimates, not a measurement or a formal evaluation.",

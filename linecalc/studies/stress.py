@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .exposure import PLAUSIBLE_GAIN_DBI, average_power_w, exposure_distances
-from .voltage import PEAK_PER_RMS, line_extremes_in_path, line_rating_margins, tuner_part_stress
+from linecalc.physics.exposure import PLAUSIBLE_GAIN_DBI, average_power_w, exposure_distances
+from linecalc.physics.voltage import PEAK_PER_RMS, line_extremes_in_path, line_rating_margins, tuner_part_stress
 
 # The span of the exposure limit tables [Hz] (47 CFR 1.1310 Table 1 starts at 0.3 MHz).
 EXPOSURE_SPAN_HZ = (0.3e6, 100e9)

@@ -11,7 +11,7 @@ import sys
 import numpy as np
 import yaml
 
-from .units import UnitError, parse_quantity
+from linecalc.io.units import UnitError, parse_quantity
 
 # A message shows the value at fault; one that aliases expand, or a long list of rows, is cut here.
 MAX_MESSAGE_CHARS = 500

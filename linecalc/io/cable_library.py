@@ -5,7 +5,7 @@ a(f) = k_c sqrt(f) + k_d f to those points (`cables.cable_from_points`) and keep
 the points as the range where the data are valid. The geometry and materials in an entry are
 documentation and the input of ``cable_data/derive_attenuation.py``; they are not used here.
 
-Units are read once, here, with `linecalc.units`; what leaves this module is SI floats.
+Units are read once, here, with `linecalc.io.units`; what leaves this module is SI floats.
 """
 from __future__ import annotations
 
@@ -17,10 +17,10 @@ from pathlib import Path
 import numpy as np
 import yaml
 
-from .cables import Cable, cable_from_points
-from .units import UnitError, parse_loss_db_per_m, parse_quantity
+from linecalc.physics.cables import Cable, cable_from_points
+from linecalc.io.units import UnitError, parse_loss_db_per_m, parse_quantity
 
-CABLE_DATA_DIR = Path(__file__).resolve().parent.parent / "cable_data"
+CABLE_DATA_DIR = Path(__file__).resolve().parent.parent.parent / "cable_data"
 KINDS = ("coax", "balanced")
 MIN_POINTS = 3
 # The frequency at which the listing order compares losses [Hz] (inside every entry's range).

@@ -10,15 +10,15 @@ from pathlib import Path
 
 import numpy as np
 
-from . import bands as band_table
-from .budget import Station
-from .compare import CompareSpec
-from .exposure import MODE_DUTY_FACTORS, duty_factor
-from .feed import build_feed, read_cable
-from .loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
-from .schema import (Context, StationError, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
+from linecalc.physics import bands as band_table
+from linecalc.studies.budget import Station
+from linecalc.studies.compare import CompareSpec
+from linecalc.physics.exposure import MODE_DUTY_FACTORS, duty_factor
+from linecalc.io.feed_file import build_feed, read_cable
+from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
+from linecalc.io.yaml_schema import (Context, StationError, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
                      string)
-from .units import UnitError, parse_impedance
+from linecalc.io.units import UnitError, parse_impedance
 
 
 # Defaults of the radio and antenna keys (documented in the README where the keys are):
@@ -66,7 +66,7 @@ def _gain_dbi(doc, ctx):
 
 def _touchstone(doc, ctx, file):
     """A Touchstone one-port sweep, its path relative to the station file."""
-    from .touchstone import TouchstoneError, read_one_port
+    from linecalc.io.touchstone import TouchstoneError, read_one_port
 
     name = string(doc, "touchstone", ctx)
     path = Path(file).parent / name

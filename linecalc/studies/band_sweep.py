@@ -10,9 +10,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .budget import BudgetError, BudgetResult, Station, solve_budget
-from .loads import outside_table
-from .sweep import SweepStatistics, sweep_frequencies_hz, sweep_statistics
+from linecalc.studies.budget import BudgetError, BudgetResult, Station, solve_budget
+from linecalc.physics.loads import outside_table
+from linecalc.physics.swr_curve import SweepStatistics, sweep_frequencies_hz, sweep_statistics
 
 
 @dataclass(frozen=True)

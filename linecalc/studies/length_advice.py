@@ -7,10 +7,10 @@ import dataclasses
 
 import numpy as np
 
-from .advisor import LengthAdvice, advise_length, find_windows
-from .budget import BudgetError, Station
-from .compare import CompareError, main_line_index
-from .loads import ImpedanceTable, outside_table
+from linecalc.physics.length_scan import LengthAdvice, advise_length, find_windows
+from linecalc.studies.budget import BudgetError, Station
+from linecalc.studies.compare import CompareError, main_line_index
+from linecalc.physics.loads import ImpedanceTable, outside_table
 
 # Points per band row for the scan: both edges and the centre.
 POINTS_PER_BAND = 3

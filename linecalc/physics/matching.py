@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .lumped import capacitor_impedance_ohm, inductor_impedance_ohm, series_abcd, shunt_abcd
+from linecalc.physics.lumped import capacitor_impedance_ohm, inductor_impedance_ohm, series_abcd, shunt_abcd
 
 # Unloaded Q of a good HF inductor and of an air or ceramic variable capacitor: common practice.
 INDUCTOR_Q = 100.0

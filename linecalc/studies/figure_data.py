@@ -7,11 +7,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from . import plots
-from .advisor import voltage_along_line
-from .bandsweep import solve_band_sweeps
-from .budget import BudgetError, solve_budget
-from .compare import CompareError, alternatives_from_spec, compare, main_line_index
+from linecalc.render import plots
+from linecalc.physics.length_scan import voltage_along_line
+from linecalc.studies.band_sweep import solve_band_sweeps
+from linecalc.studies.budget import BudgetError, solve_budget
+from linecalc.studies.compare import CompareError, alternatives_from_spec, compare, main_line_index
 
 # Positions along the line for the voltage plot: enough to draw a smooth standing wave.
 VOLTAGE_POINTS = 801

@@ -23,11 +23,11 @@ import dataclasses
 
 import numpy as np
 
-from .cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
-from .elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
-from .tuner import TunerParts
-from .schema import decibels, frequency_table, mapping, number, quantity, string
-from .units import UnitError, parse_impedance, parse_loss_db_per_m
+from linecalc.physics.cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
+from linecalc.elements.parts import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.physics.matching import TunerParts
+from linecalc.io.yaml_schema import decibels, frequency_table, mapping, number, quantity, string
+from linecalc.io.units import UnitError, parse_impedance, parse_loss_db_per_m
 
 CONNECTOR_LOSS_DB = 0.05
 CHOKE_LOSS_DB = 0.05
@@ -143,7 +143,7 @@ def _inline_cable(doc, ctx, label):
 def read_cable(value, ctx, label):
     """A library id or an inline cable (points or geometry) -> `Cable`."""
     if isinstance(value, str):
-        from . import library  # the library is read only when a station names one of its cables
+        from linecalc.io import cable_library as library
 
         found = library.cable(value)
         if found is None:

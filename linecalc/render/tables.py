@@ -9,8 +9,8 @@ import math
 import numpy as np
 from tabulate import tabulate
 
-from .budget import BudgetResult
-from .exposure import CAUTIONS
+from linecalc.studies.budget import BudgetResult
+from linecalc.physics.exposure import CAUTIONS
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
                  "radio-end SWR are averages over every phase, and the loss range shows least and most.")

@@ -184,7 +184,7 @@ def loss_shares(result) -> LossShares:
 
     Parameters
     ----------
-    result : linecalc.budget.BudgetResult
+    result : linecalc.studies.budget.BudgetResult
 
     Returns
     -------
@@ -234,7 +234,7 @@ def plot_loss_budget(path, result, *, force=False):
     ----------
     path : str or Path
         Output file, .png or .svg.
-    result : linecalc.budget.BudgetResult
+    result : linecalc.studies.budget.BudgetResult
     force : bool
         Overwrite an existing file.
 
@@ -392,7 +392,7 @@ def plot_line_voltage(path, labels, position_m, voltage_v, *, rating_v=None, lin
         Band names, one per curve.
     position_m, voltage_v : sequence of array_like
         Per band: distance from the radio end of the line [m] and |V| there [V, RMS] (see
-        `linecalc.advisor.voltage_along_line`).
+        `linecalc.physics.length_scan.voltage_along_line`).
     rating_v : float or None
         The cable's voltage rating [V], drawn as a dashed line when given.
     line_label : str

@@ -7,10 +7,10 @@ an L or T network can match it to the reference impedance with its parts inside 
 the least tuner loss, and the largest RMS voltage on the feeder at the radio's power. Lengths are
 evaluated in chunks (``chunk_plan``) so that memory stays bounded; no loop runs per frequency.
 
-The tuner test (`linecalc.tuner_scan`) is the full design of `linecalc.tuner` without its last
+The tuner test (`linecalc.physics.matching_fast`) is the full design of `linecalc.physics.matching` without its last
 resort: where no exact in-range setting exists the full design searches for the closest setting,
 the advisor calls the load unmatched. A length the advisor calls matchable is matched by the full
-design on every frequency; see `linecalc.tuner_scan.t_network_least_loss` for the losses.
+design on every frequency; see `linecalc.physics.matching_fast.t_network_least_loss` for the losses.
 """
 from __future__ import annotations
 
@@ -18,7 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .tuner_scan import LEAST_LOSS
+from linecalc.physics.matching_fast import LEAST_LOSS
 
 # Largest scan (lengths x frequencies) run without an explicit override: about 5 s for a T
 # tuner on the 2-core development machine (bench/bench_advisor.py: 1.27 million in 3.3 s).
@@ -157,7 +157,7 @@ def band_scan_frequencies(bands, points_per_band=3):
 
     Parameters
     ----------
-    bands : sequence of linecalc.bands.Band
+    bands : sequence of linecalc.physics.bands.Band
     points_per_band : int
         Points per band, 2 or more; 3 gives the edges and the centre.
 
@@ -361,16 +361,16 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
 
     Parameters
     ----------
-    cable : linecalc.cables.Cable
+    cable : linecalc.physics.cables.Cable
         The feeder whose length is scanned.
     frequency_hz : array_like, shape (nf,)
         Frequencies that must all be matched [Hz], e.g. from `band_scan_frequencies`.
     z_antenna_ohm : array_like of complex, shape (nf,)
         Antenna feedpoint impedance at those frequencies [ohm]; resistance >= 0.
-    parts : linecalc.tuner.TunerParts
+    parts : linecalc.physics.matching.TunerParts
         Ranges and Qs of the tuner's parts.
     network : {'T', 'L'}
-        The tuner's network (see `linecalc.tuner_scan`).
+        The tuner's network (see `linecalc.physics.matching_fast`).
     r0_ohm : float
         Reference impedance the tuner matches to [ohm].
     radio_power_w : float
