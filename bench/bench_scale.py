@@ -20,7 +20,8 @@ BIN = Path(sys.executable).parent
 LONG_PATH = """
 import time, resource
 import numpy as np
-from linecalc.studies.budget import Station, solve_budget
+from linecalc.studies.budget import solve_budget
+from linecalc.studies.station import Station
 from linecalc.elements.parts import Attenuating, Line
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable

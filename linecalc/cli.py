@@ -7,6 +7,7 @@ from __future__ import annotations
 import argparse
 import sys
 import warnings
+from linecalc.errors import InputError
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
@@ -98,8 +99,9 @@ def build_parser() -> argparse.ArgumentParser:
 
 def _solve(station):
     """Solve a loaded station; a station that cannot be solved as described is bad input."""
-    from linecalc.studies.budget import BudgetError, solve_budget
-    from linecalc.io.station_file import StationError
+    from linecalc.studies.budget import solve_budget
+    from linecalc.studies.station import BudgetError
+    from linecalc.errors import StationError
 
     try:
         return solve_budget(station)
@@ -121,8 +123,8 @@ def _station_paths(arguments):
 def _sweep(station, points):
     """Every band of the station edge to edge; a station that cannot be swept is bad input."""
     from linecalc.studies.band_sweep import solve_band_sweeps
-    from linecalc.studies.budget import BudgetError
-    from linecalc.io.station_file import StationError
+    from linecalc.studies.station import BudgetError
+    from linecalc.errors import StationError
 
     try:
         return solve_band_sweeps(station, points)[1]
@@ -155,7 +157,8 @@ def _run_budget(args) -> int:
     """One station: its result, or its error. Several: every result that can be had, each error on
     stderr, and exit status 2 if any station failed."""
     from linecalc.render import tables as report
-    from linecalc.io.station_file import StationError, load_station
+    from linecalc.errors import StationError
+    from linecalc.io.station_file import load_station
 
     paths = _station_paths(args.station)
     if not paths:
@@ -198,13 +201,13 @@ def _run_budget(args) -> int:
     return EXIT_BAD_INPUT if len(paths) > 1 and failed else EXIT_OK
 
 
-class OptionError(ValueError):
+class OptionError(InputError):
     """A bad command-line option value: exit status 2, naming the option."""
 
 
 def _compare_spec(args, spec):
     """The station file's compare: key, extended by the command-line options."""
-    from linecalc.studies.compare import CompareSpec
+    from linecalc.studies.station import CompareSpec
     from linecalc.io.units import UnitError, parse_quantity
 
     cables = tuple(spec.cables) if spec else ()
@@ -233,9 +236,10 @@ def _compare_spec(args, spec):
 
 def _run_compare(args) -> int:
     from linecalc.render import tables as report
-    from linecalc.studies.budget import BudgetError
+    from linecalc.studies.station import BudgetError
     from linecalc.studies.compare import CompareError, alternatives_from_spec, compare
-    from linecalc.io.station_file import StationError, load_station_and_compare
+    from linecalc.errors import StationError
+    from linecalc.io.station_file import load_station_and_compare
 
     station, spec = load_station_and_compare(args.station)
     spec = _compare_spec(args, spec)
@@ -279,9 +283,11 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
 
 def _run_feedpoint(args) -> int:
     from linecalc.render import tables as report
-    from linecalc.studies.budget import BudgetError, recover_feedpoint
+    from linecalc.studies.budget import recover_feedpoint
+    from linecalc.studies.station import BudgetError
     from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna
-    from linecalc.io.station_file import StationError, input_files, load_station
+    from linecalc.errors import StationError
+    from linecalc.io.station_file import input_files, load_station
 
     station = load_station(args.station)
     antenna = station.antenna
@@ -343,8 +349,9 @@ def _run_advise(args) -> int:
     from linecalc.render import tables as report
     from linecalc.studies.length_advice import advise_station
     from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
-    from linecalc.studies.budget import BudgetError
-    from linecalc.io.station_file import StationError, load_station
+    from linecalc.studies.station import BudgetError
+    from linecalc.errors import StationError
+    from linecalc.io.station_file import load_station
 
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
@@ -370,8 +377,9 @@ def _run_advise(args) -> int:
 
 def _run_plot(args) -> int:
     from linecalc.studies import figure_data as figures
-    from linecalc.studies.budget import BudgetError
-    from linecalc.io.station_file import StationError, load_station_and_compare
+    from linecalc.studies.station import BudgetError
+    from linecalc.errors import StationError
+    from linecalc.io.station_file import load_station_and_compare
 
     station, spec = load_station_and_compare(args.station)
     try:
@@ -409,7 +417,7 @@ def _run_cables(args) -> int:
 
 def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
-    from linecalc.io.station_file import StationError
+    from linecalc.errors import StationError
 
     try:
         with warnings.catch_warnings():

@@ -12,6 +12,7 @@ import tracemalloc
 import numpy as np
 import pytest
 
+from linecalc.studies.station import Station
 from linecalc.physics import length_scan as advisor
 from linecalc.physics import bands
 from linecalc.studies import budget
@@ -60,7 +61,7 @@ def advice():
 def station(feed):
     table = loads.ImpedanceTable(FREQUENCY_HZ, Z_ANTENNA)
     labels = tuple(f"{f / 1e6:.4f} MHz" for f in FREQUENCY_HZ)
-    return budget.Station(name="advisor check", radio_power_w=POWER_W, reference_impedance_ohm=R0, labels=labels,
+    return Station(name="advisor check", radio_power_w=POWER_W, reference_impedance_ohm=R0, labels=labels,
                           frequency_hz=FREQUENCY_HZ, antenna=table, feed=tuple(feed))
 
 

@@ -17,6 +17,7 @@ import skrf
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc.elements import parts as elements
@@ -59,7 +60,7 @@ class DistortionlessCable(cables.Cable):
 def make_station(feed, frequency_hz, z_antenna_ohm, power_w=100.0, z_ref_ohm=Z_REF_OHM):
     f = np.atleast_1d(np.asarray(frequency_hz, dtype=float))
     z = np.array(np.broadcast_to(np.asarray(z_antenna_ohm, dtype=complex), f.shape))
-    return budget.Station(name="element test", radio_power_w=power_w, reference_impedance_ohm=z_ref_ohm,
+    return Station(name="element test", radio_power_w=power_w, reference_impedance_ohm=z_ref_ohm,
                           labels=tuple(f"{x / 1e6:g} MHz" for x in f), frequency_hz=f,
                           antenna=loads.ImpedanceTable(f, z), feed=tuple(feed))
 
@@ -132,7 +133,7 @@ def test_meter_identity_with_an_swr_only_antenna():
     # An unknown phase averages the readings; forward - reflected is linear, so the identity holds
     # for the averages too.
     f = np.array([3.6e6, 14.2e6])
-    station = budget.Station(name="swr only", radio_power_w=100.0, reference_impedance_ohm=50.0,
+    station = Station(name="swr only", radio_power_w=100.0, reference_impedance_ohm=50.0,
                              labels=("80m", "20m"), frequency_hz=f, antenna=loads.SwrTable(f, np.array([3.0, 6.0])),
                              feed=(elements.Meter("shack", 50.0), elements.Line(COAX, 30.0), elements.Meter("top", 50.0)))
     result = budget.solve_budget(station)

@@ -9,6 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc.elements import parts as elements
@@ -137,7 +138,7 @@ def test_distance_grows_as_the_square_root_of_power(factor):
 
 def _station(cable, frequency_hz):
     antenna = loads.ImpedanceTable(frequency_hz, np.array([72.0 - 35.0j]))
-    return budget.Station(name="exposure test", radio_power_w=100.0, reference_impedance_ohm=50.0,
+    return Station(name="exposure test", radio_power_w=100.0, reference_impedance_ohm=50.0,
                           labels=("20m",), frequency_hz=frequency_hz, antenna=antenna,
                           feed=(elements.Line(cable, 40.0),))
 

@@ -9,12 +9,14 @@ import itertools
 import numpy as np
 import pytest
 
-from linecalc.studies.budget import BudgetError, Station, solve_budget
+from linecalc.studies.budget import solve_budget
+from linecalc.studies.station import BudgetError, Station
 from linecalc.physics.cables import two_wire_from_geometry
 from linecalc.elements.parts import Line
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable
-from linecalc.io.station_file import StationError, parse_station_text
+from linecalc.errors import StationError
+from linecalc.io.station_file import parse_station_text
 
 FREQUENCY_HZ = np.geomspace(100e3, 3e9, 41)
 Z_REF = 50.0

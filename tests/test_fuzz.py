@@ -31,13 +31,15 @@ from hypothesis import strategies as st
 
 from linecalc import cli
 from linecalc.physics import bands
-from linecalc.studies.budget import BudgetError, BudgetResult, solve_budget
+from linecalc.studies.budget import BudgetResult, solve_budget
+from linecalc.studies.station import BudgetError
 from linecalc.elements.parts import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from linecalc.physics.cables import CONDUCTIVITY_S_PER_M
 from linecalc.physics.exposure import MODE_DUTY_FACTORS
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable
-from linecalc.io.station_file import StationError, parse_station_text
+from linecalc.errors import StationError
+from linecalc.io.station_file import parse_station_text
 
 FILE = "fuzz.yaml"
 LIBRARY_IDS = sorted(load_library())

@@ -15,6 +15,7 @@ from xml.etree import ElementTree
 import numpy as np
 import pytest
 
+from linecalc.studies.station import Station
 from linecalc.physics import length_scan as advisor
 from linecalc.physics import bands
 from linecalc.studies import budget
@@ -51,7 +52,7 @@ def invented_doublet_ohm(frequency_hz):
 
 def solve(frequency_hz, feed, labels=None):
     table_hz = np.linspace(1.8e6, 30e6, 400)
-    station = budget.Station(
+    station = Station(
         name="Orchard doublet (invented)", radio_power_w=100.0, reference_impedance_ohm=50.0,
         labels=labels or tuple(f"{f / 1e6:.4f} MHz" for f in frequency_hz), frequency_hz=frequency_hz,
         antenna=loads.ImpedanceTable(table_hz, invented_doublet_ohm(table_hz)), feed=tuple(feed))

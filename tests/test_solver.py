@@ -13,6 +13,7 @@ import skrf
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
+from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc.elements import parts as elements
@@ -198,7 +199,7 @@ def test_real_z0_line_total_loss_and_input_swr_are_the_arrl_closed_form(length_m
 
 
 def _single_line_station(cable, length_m, frequency_hz, antenna):
-    return budget.Station(name="test path", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
+    return Station(name="test path", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
                           labels=tuple(f"{f / 1e6:g} MHz" for f in frequency_hz),
                           frequency_hz=frequency_hz, antenna=antenna,
                           feed=(elements.Line(cable, length_m),))
@@ -343,7 +344,7 @@ def test_energy_balance_and_heat_integrated_along_the_lines(load_name):
     z0_last, _ = COAX.constants(frequency_hz)
     rho = load_rho(load_name, z0_last)
     antenna = loads.ImpedanceTable(frequency_hz, Z_REF_OHM * (1 + rho) / (1 - rho))
-    station = budget.Station(name="three lines", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
+    station = Station(name="three lines", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
                              labels=tuple(map(str, frequency_hz)), frequency_hz=frequency_hz,
                              antenna=antenna, feed=feed)
     result = budget.solve_budget(station)

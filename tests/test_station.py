@@ -5,7 +5,8 @@ import numpy as np
 import pytest
 
 from linecalc.studies.budget import solve_budget
-from linecalc.io.station_file import StationError, parse_station_text
+from linecalc.errors import StationError
+from linecalc.io.station_file import parse_station_text
 
 METRES = """\
 name: Unit test

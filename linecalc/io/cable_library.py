@@ -19,6 +19,7 @@ import yaml
 
 from linecalc.physics.cables import Cable, cable_from_points
 from linecalc.io.units import UnitError, parse_loss_db_per_m, parse_quantity
+from linecalc.errors import LinecalcError
 
 CABLE_DATA_DIR = Path(__file__).resolve().parent.parent.parent / "cable_data"
 KINDS = ("coax", "balanced")
@@ -32,7 +33,7 @@ _ORDER_FREQUENCY_HZ = 100e6
 _FAST_SAFE_LOADER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
 
 
-class LibraryError(RuntimeError):
+class LibraryError(LinecalcError, RuntimeError):
     """A cable-library file that cannot be read: a fault in the shipped data, not in user input."""
 
 

@@ -11,12 +11,12 @@ from pathlib import Path
 import numpy as np
 
 from linecalc.physics import bands as band_table
-from linecalc.studies.budget import Station
-from linecalc.studies.compare import CompareSpec
+from linecalc.studies.station import CompareSpec, Station
 from linecalc.physics.exposure import MODE_DUTY_FACTORS, duty_factor
 from linecalc.io.feed_file import build_feed, read_cable
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
-from linecalc.io.yaml_schema import (Context, StationError, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
+from linecalc.errors import StationError
+from linecalc.io.yaml_schema import (Context, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
                      string)
 from linecalc.io.units import UnitError, parse_impedance
 

@@ -13,6 +13,7 @@ import tempfile
 from pathlib import Path
 
 import numpy as np
+from linecalc.errors import InputError
 
 UNITS_HZ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
 PARAMETERS = ("s", "y", "z")
@@ -21,7 +22,7 @@ FORMATS = ("ma", "db", "ri")
 _EXTENSION = re.compile(r"\.[syzgh](\d+)p$", re.IGNORECASE)
 
 
-class TouchstoneError(ValueError):
+class TouchstoneError(InputError):
     """A Touchstone file that cannot be used: rendered ``FILE:LINE: message``.
 
     ``line`` is None only when the file cannot be opened at all (missing, a folder, no
@@ -33,7 +34,7 @@ class TouchstoneError(ValueError):
         super().__init__(f"{self.file}:{line}: {message}" if line is not None else f"{self.file}: {message}")
 
 
-class TouchstoneWriteError(ValueError):
+class TouchstoneWriteError(InputError):
     """An output that must not be written: it exists (without ``force``), it is an input, or the
     system refused. Bad usage, not a bug: the command line exits with status 2."""
 

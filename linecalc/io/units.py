@@ -9,6 +9,7 @@ import functools
 import math
 import re
 import sys
+from linecalc.errors import InputError
 
 
 @functools.lru_cache(maxsize=1)
@@ -49,7 +50,7 @@ _LOSS = re.compile(rf"^\s*({_NUMBER})\s*dB\s*/\s*(.+?)\s*$")
 _SIMPLE = re.compile(rf"^({_NUMBER})\s*({'|'.join(map(re.escape, COMMON_UNITS))})$")
 
 
-class UnitError(ValueError):
+class UnitError(InputError):
     """A value that cannot be read as the quantity its key asks for."""
 
 

@@ -11,27 +11,8 @@ import sys
 import numpy as np
 import yaml
 
+from linecalc.errors import StationError, printable
 from linecalc.io.units import UnitError, parse_quantity
-
-# A message shows the value at fault; one that aliases expand, or a long list of rows, is cut here.
-MAX_MESSAGE_CHARS = 500
-
-
-class StationError(ValueError):
-    """Bad input, with where it is: rendered as ``FILE:LINE: what is wrong (at key.path)``."""
-
-    def __init__(self, file, line, message, path=""):
-        self.file, self.line, self.message, self.path = str(file), line, message, path
-        where = f" (at {path})" if path else ""
-        shown = message if len(message) <= MAX_MESSAGE_CHARS else (
-            f"{message[:MAX_MESSAGE_CHARS]}... ({len(message) - MAX_MESSAGE_CHARS:,} more characters)")
-        super().__init__(_printable(f"{self.file}:{line}: {shown}{where}"))
-
-
-def _printable(text):
-    """``text`` with each unprintable character (a line break in a key, say) escaped: one line, always."""
-    return "".join(c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in text)
-
 
 class _Mapping(dict):
     """A YAML mapping that remembers the line of each key and of itself."""

@@ -8,6 +8,7 @@ centre of its edges in the chosen region.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from linecalc.errors import InputError
 
 # name -> {region: (low_hz, high_hz)}; a band missing from a region is not allocated there.
 _KHZ = 1e3
@@ -32,7 +33,7 @@ _BAND_EDGES_HZ = {
 REGIONS = (1, 2, 3)
 
 
-class BandError(ValueError):
+class BandError(InputError):
     """An unknown band name, or a band not allocated in the region."""
 
 

@@ -8,6 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+from linecalc.errors import LinecalcError
 
 
 # Net power below this fraction of the apparent power |V||I| at the radio end is rounding
@@ -21,7 +22,7 @@ NO_POWER_FRACTION = 1e-12
 NORMALIZE_EVERY = 16
 
 
-class NoNetPowerError(ValueError):
+class NoNetPowerError(LinecalcError, ValueError):
     """The path accepts no net power at some frequencies, so no radio power can be delivered.
 
     ``mask`` marks those frequencies (over the frequency axis, any leading axis reduced).

@@ -19,6 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from linecalc.physics.matching_fast import LEAST_LOSS
+from linecalc.errors import InputError
 
 # Largest scan (lengths x frequencies) run without an explicit override: about 5 s for a T
 # tuner on the 2-core development machine (bench/bench_advisor.py: 1.27 million in 3.3 s).
@@ -36,7 +37,7 @@ CACHE_CHUNK_EVALUATIONS = 2**15
 STEP_ROUNDING = 1e-9
 
 
-class AdvisorInputError(ValueError):
+class AdvisorInputError(InputError):
     """Bad input to the length advisor."""
 
 

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
+from linecalc.errors import InputError
 
 FIGURE_SIZE_IN = (10.0, 6.0)
 DPI = 100
@@ -38,11 +39,11 @@ VOLTAGE_CAUTION = ("RMS volts; peaks are 1.41 times higher. Lines at high SWR ca
                    "and can kill: keep clear while transmitting.")
 
 
-class PlotExistsError(FileExistsError):
+class PlotExistsError(FileExistsError, InputError):
     """The plot file exists and ``force`` was not given."""
 
 
-class PlotInputError(ValueError):
+class PlotInputError(InputError):
     """A plot asked for in a format other than PNG or SVG, or with data that do not fit together."""
 
 

@@ -10,7 +10,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from linecalc.studies.budget import BudgetError, BudgetResult, Station, solve_budget
+from linecalc.studies.budget import BudgetResult, solve_budget
+from linecalc.studies.station import BudgetError, Station
 from linecalc.physics.loads import outside_table
 from linecalc.physics.swr_curve import SweepStatistics, sweep_frequencies_hz, sweep_statistics
 

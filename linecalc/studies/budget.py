@@ -13,44 +13,12 @@ from linecalc.physics import deembed
 from linecalc.studies import stress as safety
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
 from linecalc.physics.cascade import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
+from linecalc.studies.station import BudgetError, Station
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
 # converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
 # least/most loss to a few thousandths of a dB.
 PHASE_SAMPLES = 180
-
-
-@dataclass(frozen=True)
-class Station:
-    """A validated station in SI units, ready to solve.
-
-    ``feed`` is ordered from the radio to the antenna; ``labels`` name each requested row
-    (band name or frequency) and ``frequency_hz`` gives its frequency.
-    """
-
-    name: str
-    radio_power_w: float
-    reference_impedance_ohm: float
-    labels: tuple[str, ...]
-    frequency_hz: np.ndarray
-    antenna: ImpedanceTable | SwrTable | MeasuredAntenna
-    feed: tuple = ()
-    region: int = 2
-    mode: str = "carrier"
-    duty_factor: float = 1.0
-    transmit_fraction: float = 1.0
-    antenna_gain_dbi: float = 2.15
-    band_edges_hz: tuple = ()  # per row: (low, high) of its band [Hz], or None for an explicit frequency
-    source_file: str = "<station>"
-    key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
-
-
-class BudgetError(ValueError):
-    """A station that loads but cannot be solved as described; ``key`` is the key path at fault."""
-
-    def __init__(self, message, key):
-        self.key = key
-        super().__init__(message)
 
 
 @dataclass(frozen=True)

@@ -18,27 +18,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from linecalc.studies.budget import BudgetResult, Station, solve_budget
+from linecalc.studies.budget import BudgetResult, solve_budget
+from linecalc.studies.station import CompareSpec, Station
 from linecalc.elements.parts import Attenuating, Line, Transformer, closed_form_line_loss_db
+from linecalc.errors import InputError
 
 # Loss of the balun or choke inserted by a change of line kind [dB]: the station-file defaults.
 INSERTED_BALUN_LOSS_DB = 0.2
 INSERTED_CHOKE_LOSS_DB = 0.05
-
-
-@dataclass(frozen=True)
-class CompareSpec:
-    """What a station file asks to compare (its ``compare:`` key), already read into SI values.
-
-    ``cables`` holds (name, Cable) pairs for the main line; ``lengths_m`` the lengths to try for
-    the line labelled ``line`` (or the main line).
-    """
-
-    main_line: str | None = None
-    cables: tuple = ()
-    tuner_positions: bool = False
-    line: str | None = None
-    lengths_m: tuple = ()
 
 
 def _same_feed(a: Station, b: Station) -> bool:
@@ -58,7 +45,7 @@ def alternatives_from_spec(station: Station, spec: CompareSpec) -> list[Alternat
     return alternatives
 
 
-class CompareError(ValueError):
+class CompareError(InputError):
     """A comparison that cannot be built: no alternatives, no line to vary, no tuner to move."""
 
 

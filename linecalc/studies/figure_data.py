@@ -10,14 +10,16 @@ import numpy as np
 from linecalc.render import plots
 from linecalc.physics.length_scan import voltage_along_line
 from linecalc.studies.band_sweep import solve_band_sweeps
-from linecalc.studies.budget import BudgetError, solve_budget
+from linecalc.studies.budget import solve_budget
+from linecalc.studies.station import BudgetError
 from linecalc.studies.compare import CompareError, alternatives_from_spec, compare, main_line_index
+from linecalc.errors import InputError
 
 # Positions along the line for the voltage plot: enough to draw a smooth standing wave.
 VOLTAGE_POINTS = 801
 
 
-class PlotProblem(ValueError):
+class PlotProblem(InputError):
     """A figure that cannot be drawn from this station, or a file that cannot be written."""
 
 

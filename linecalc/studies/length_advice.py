@@ -8,7 +8,7 @@ import dataclasses
 import numpy as np
 
 from linecalc.physics.length_scan import LengthAdvice, advise_length, find_windows
-from linecalc.studies.budget import BudgetError, Station
+from linecalc.studies.station import BudgetError, Station
 from linecalc.studies.compare import CompareError, main_line_index
 from linecalc.physics.loads import ImpedanceTable, outside_table
 
