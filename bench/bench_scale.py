@@ -22,7 +22,7 @@ import time, resource
 import numpy as np
 from linecalc.studies.budget import solve_budget
 from linecalc.studies.station import Station
-from linecalc.elements.parts import Attenuating, Line
+from linecalc.elements import Attenuating, Line
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable
 

@@ -14,7 +14,8 @@ import time
 import numpy as np
 
 from linecalc.physics.cables import cable_from_points
-from linecalc.elements.parts import Line, line_abcd
+from linecalc.elements import Line
+from linecalc.physics.twoports import line_abcd
 from linecalc.physics.cascade import solve_path
 
 RG213_LIKE = cable_from_points("bench-coax", "50-ohm solid-PE coax, bench only", "coax", 50.0, 0.66,

@@ -29,7 +29,7 @@ from pathlib import Path
 import numpy as np
 
 from linecalc.physics.deembed import embed_impedance
-from linecalc.elements.parts import Line
+from linecalc.elements import Line
 from linecalc.io.cable_library import load_library
 from linecalc.io.touchstone import write_one_port
 

@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 
 from linecalc.studies.budget import solve_budget
-from linecalc.elements.parts import Line
+from linecalc.elements import Line
 from linecalc.io.station_file import load_station
 
 ROOT = Path(__file__).resolve().parent.parent

@@ -17,7 +17,8 @@ from linecalc.physics import length_scan as advisor
 from linecalc.physics import bands
 from linecalc.studies import budget
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
+from linecalc.physics import twoports
 from linecalc.physics import loads
 from linecalc.physics import matching as tuner
 from linecalc.physics import matching_fast as tuner_scan
@@ -230,14 +231,14 @@ def test_peak_voltage_lossless_line_textbook():
 @pytest.mark.parametrize("length_m", [0.3, 2.0, 7.7, 31.0])
 def test_peak_voltage_against_dense_sampling_of_chain_matrices(length_m):
     # Independent method: |V| at 20,001 points from chain matrices of partial lengths
-    # (elements.line_abcd, Pozar, 4th ed., Table 4.1) driven from the load end.
+    # (twoports.line_abcd, Pozar, 4th ed., Table 4.1) driven from the load end.
     f = np.array([3.6e6, 14.1e6, 28.5e6])
     z0, gamma = LADDER.constants(f)
     z_load = np.array([70 - 60j, 2000 + 1500j, 300 - 900j])
     rho_out = (z_load - z0) / (z_load + z0)
     rho_in = rho_out * np.exp(-2 * gamma * length_m)
     distance_from_load = np.linspace(0.0, length_m, 20_001)
-    abcd = elements.line_abcd(z0, gamma, distance_from_load)            # (points, nf, 2, 2)
+    abcd = twoports.line_abcd(z0, gamma, distance_from_load)            # (points, nf, 2, 2)
     v = abcd[..., 0, 0] * z_load + abcd[..., 0, 1]                      # 1 A into the load
     i_in = abcd[-1, :, 1, 0] * z_load + abcd[-1, :, 1, 1]
     forward_in = np.abs(v[-1] + z0 * i_in) / 2
@@ -247,13 +248,13 @@ def test_peak_voltage_against_dense_sampling_of_chain_matrices(length_m):
 
 
 def test_voltage_along_line_matches_chain_matrices():
-    # Independent method: chain matrices from the input (elements.line_abcd inverted: the state
+    # Independent method: chain matrices from the input (twoports.line_abcd inverted: the state
     # at x follows from the input state by the matrix of length -x, Pozar, Table 4.1).
     f = np.array([7.1e6, 21.2e6])
     z0, gamma = LADDER.constants(f)
     v_in, i_in = np.array([300 + 40j, 120 - 500j]), np.array([0.4 - 0.1j, 0.9 + 0.3j])
     position, voltage = advisor.voltage_along_line(z0, gamma, 12.0, v_in, i_in, 61)
-    abcd = elements.line_abcd(z0, gamma, -position)
+    abcd = twoports.line_abcd(z0, gamma, -position)
     expected = np.abs(abcd[..., 0, 0] * v_in + abcd[..., 0, 1] * i_in)
     np.testing.assert_allclose(voltage, expected, rtol=1e-9)
     assert position[0] == 0.0 and position[-1] == 12.0

@@ -13,7 +13,7 @@ from linecalc.io import cable_library as library
 from linecalc.studies.budget import solve_budget
 from linecalc.studies.compare import CompareError, alternatives_from_spec, compare
 from linecalc.studies.station import CompareSpec
-from linecalc.elements.parts import closed_form_line_loss_db
+from linecalc.physics.twoports import closed_form_line_loss_db
 from linecalc.io.station_file import load_station, load_station_and_compare, parse_station_text
 
 ROOT = Path(__file__).resolve().parent.parent

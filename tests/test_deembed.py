@@ -15,7 +15,8 @@ from hypothesis import strategies as st
 from scipy.optimize import minimize_scalar
 
 from linecalc.physics import deembed
-from linecalc.elements import parts as elements
+from linecalc import elements
+from linecalc.physics import twoports
 from linecalc.physics.cables import Cable
 
 skrf = pytest.importorskip("skrf")
@@ -40,7 +41,7 @@ def coax_line(length_m):
 def real_z0_line_abcd(frequency_hz, alpha_np_per_m, length_m, z0_ohm=Z_REF_OHM):
     """A line of real Z0 (a distortionless line: R'/L' = G'/C') with attenuation alpha."""
     beta = 2 * np.pi * frequency_hz / (0.66 * SPEED_OF_LIGHT)
-    return elements.line_abcd(z0_ohm, alpha_np_per_m + 1j * beta, length_m)
+    return twoports.line_abcd(z0_ohm, alpha_np_per_m + 1j * beta, length_m)
 
 
 def mixed_path():
@@ -50,7 +51,7 @@ def mixed_path():
         coax_line(18.0).abcd(f),
         elements.LumpedPart("L", "series", Z_REF_OHM, resistance_ohm=0.4, inductance_h=0.35e-6).abcd(f),
         elements.LumpedPart("C", "shunt", Z_REF_OHM, capacitance_f=60e-12).abcd(f),
-        elements.transformer_abcd(4.0, f) * np.ones((1, 1)),
+        twoports.transformer_abcd(4.0, f) * np.ones((1, 1)),
         coax_line(7.0).abcd(f),
     ]
 
@@ -166,7 +167,7 @@ def test_shack_reading_against_the_closed_form_for_a_line_of_real_z0(length_m, a
 def test_shack_reading_through_a_matched_attenuator():
     # A 3 dB matched pad: |rho| doubles (10^(3/10) = 1.995) from the meter to the load (ARRL
     # Antenna Book, transmission-line chapter; an attenuator is a line with no phase).
-    path = [elements.attenuator_abcd(3.0, Z_REF_OHM, FREQUENCY_HZ)]
+    path = [twoports.attenuator_abcd(3.0, Z_REF_OHM, FREQUENCY_HZ)]
     result = deembed.antenna_range_from_reading(path, np.array([0.1, 0.3, 0.45, 0.49, 0.5, 0.6, 0.9]), Z_REF_OHM)
     expected = np.array([0.1, 0.3, 0.45, 0.49, 0.5, 0.6, 0.9]) * 10 ** 0.3
     np.testing.assert_allclose(result.rho_max, expected, rtol=1e-12)

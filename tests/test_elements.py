@@ -20,7 +20,7 @@ from hypothesis import strategies as st
 from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
 from linecalc.physics import loads
 from linecalc.physics import matching as tuner
 from linecalc.io.cable_library import load_library

@@ -12,7 +12,7 @@ import pytest
 from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
 from linecalc.physics import exposure
 from linecalc.physics import loads
 

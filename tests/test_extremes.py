@@ -12,7 +12,7 @@ import pytest
 from linecalc.studies.budget import solve_budget
 from linecalc.studies.station import BudgetError, Station
 from linecalc.physics.cables import two_wire_from_geometry
-from linecalc.elements.parts import Line
+from linecalc.elements import Line
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable
 from linecalc.errors import StationError

@@ -33,7 +33,7 @@ from linecalc import cli
 from linecalc.physics import bands
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import BudgetError
-from linecalc.elements.parts import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from linecalc.physics.cables import CONDUCTIVITY_S_PER_M
 from linecalc.physics.exposure import MODE_DUTY_FACTORS
 from linecalc.io.cable_library import load_library

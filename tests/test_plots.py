@@ -20,7 +20,7 @@ from linecalc.physics import length_scan as advisor
 from linecalc.physics import bands
 from linecalc.studies import budget
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
 from linecalc.physics import loads
 from linecalc.render import plots
 from linecalc.physics import matching as tuner

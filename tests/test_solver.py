@@ -16,7 +16,8 @@ from hypothesis import strategies as st
 from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
+from linecalc.physics import twoports
 from linecalc.physics import loads
 from linecalc.physics import cascade as solver
 
@@ -187,7 +188,7 @@ def test_real_z0_line_total_loss_and_input_swr_are_the_arrl_closed_form(length_m
     z0 = np.full(frequency_hz.shape, 50.0 + 0j)
     z_load = 50.0 if load_name == "50" else LOADS_OHM[load_name]
     rho_load = np.full(frequency_hz.shape, (z_load - 50.0) / (z_load + 50.0))
-    solution = solver.solve_path([elements.line_abcd(z0, gamma, length_m)], rho_load, 50.0, 100.0)
+    solution = solver.solve_path([twoports.line_abcd(z0, gamma, length_m)], rho_load, 50.0, 100.0)
 
     total_loss_db = 10 * np.log10(solution.power_w[0] / solution.power_w[1])
     matched_loss_db = DB_PER_NEPER * gamma.real * length_m
@@ -363,7 +364,7 @@ def test_zero_length_line_is_the_identity():
     frequency_hz = HF_TO_UHF_HZ
     for cable in (COAX, LADDER):
         z0, gamma = cable.constants(frequency_hz)
-        abcd = elements.line_abcd(z0, gamma, 0.0)
+        abcd = twoports.line_abcd(z0, gamma, 0.0)
         assert abcd.shape == (frequency_hz.size, 2, 2)
         np.testing.assert_array_equal(abcd, np.broadcast_to(np.eye(2), abcd.shape))
         rho = load_rho("300+j400", z0)

@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 
 from linecalc.physics import deembed
-from linecalc.elements import parts as elements
+from linecalc import elements
 from linecalc.physics import loads
 from linecalc.physics import cascade as solver
 from linecalc.physics import swr_curve as sweep

@@ -18,7 +18,7 @@ import numpy as np
 import pytest
 
 from linecalc.physics import deembed
-from linecalc.elements import parts as elements
+from linecalc import elements
 from linecalc.io.cable_library import load_library
 from linecalc.io.touchstone import (
     TouchstoneError,

@@ -11,7 +11,8 @@ import numpy as np
 import pytest
 
 from linecalc.physics import cables
-from linecalc.elements import parts as elements
+from linecalc import elements
+from linecalc.physics import twoports
 from linecalc.physics import cascade as solver
 from linecalc.physics import matching as tuner
 from linecalc.physics import voltage
@@ -29,7 +30,7 @@ def solve_line(cable, length_m, z_load_ohm, frequency_hz, power_w=P_W):
     """Node phasors of a single line into z_load, scaled to power_w at the radio end."""
     z0, gamma = cable.constants(frequency_hz)
     rho = (z_load_ohm - Z0_OHM) / (z_load_ohm + Z0_OHM)
-    path = solver.solve_path([elements.line_abcd(z0, gamma, length_m)], np.full(frequency_hz.shape, rho),
+    path = solver.solve_path([twoports.line_abcd(z0, gamma, length_m)], np.full(frequency_hz.shape, rho),
                              Z0_OHM, power_w)
     return z0, gamma, path
 
@@ -89,7 +90,7 @@ def test_lossy_line_maximum_against_a_brute_force_scan(z_load_ohm, frequency_hz)
     length_m, frequency_hz = 30.0, np.array([frequency_hz])
     z0, gamma, path = solve_line(cable, length_m, z_load_ohm, frequency_hz)
     distance = np.linspace(0.0, length_m, 400_001)
-    abcd = elements.line_abcd(z0, gamma, distance)[:, 0]  # (n, 2, 2)
+    abcd = twoports.line_abcd(z0, gamma, distance)[:, 0]  # (n, 2, 2)
     v_out, i_out = path.voltage_v[1, 0], path.current_a[1, 0]
     v = np.abs(abcd[:, 0, 0] * v_out + abcd[:, 0, 1] * i_out)
     i = np.abs(abcd[:, 1, 0] * v_out + abcd[:, 1, 1] * i_out)

@@ -24,7 +24,7 @@ import dataclasses
 import numpy as np
 
 from linecalc.physics.cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
-from linecalc.elements.parts import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from linecalc.physics.matching import TunerParts
 from linecalc.io.yaml_schema import decibels, frequency_table, mapping, number, quantity, string
 from linecalc.io.units import UnitError, parse_impedance, parse_loss_db_per_m

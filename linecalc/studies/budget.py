@@ -81,7 +81,7 @@ def _measurement_path(station, frequency_hz):
     """Chain matrices from the measuring point to the antenna; a tuner there is refused."""
     path = station.feed[station.antenna.node:]
     for element in path:
-        if hasattr(element, "design"):
+        if element.adapts_to_load:
             raise BudgetError(f"tuner {element.label} sits between the measuring point and the antenna: its "
                               "setting depends on the antenna, so the measurement cannot be moved through it",
                               "antenna")
@@ -160,9 +160,7 @@ def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
     Tuners are designed from the antenna toward the radio, each for the impedance looking into
     the path beyond it. Returns the list and a dict element index -> tuner design.
     """
-    abcd_list = [None if hasattr(element, "design") else
-                 element.scaled_abcd(frequency_hz) if hasattr(element, "scaled_abcd") else element.abcd(frequency_hz)
-                 for element in feed]
+    abcd_list = [None if element.adapts_to_load else element.scaled_abcd(frequency_hz) for element in feed]
     designs = {}
     for k in reversed(range(len(feed))):
         if abcd_list[k] is None:
@@ -210,7 +208,7 @@ def _range_warnings(feed, frequency_hz, labels):
     """A warning for every cable used outside the frequency span of its data."""
     warnings = []
     for element in feed:
-        cable = getattr(element, "cable", None)
+        cable = element.cable
         if cable is None:
             continue
         low, high = cable.data_range_hz
@@ -226,7 +224,7 @@ def _balance_warnings(feed):
     balanced tuner between them (the radio's port is unbalanced)."""
     warnings, balanced, source = [], False, "the radio"
     for element in feed:
-        cable = getattr(element, "cable", None)
+        cable = element.cable
         if element.kind == "line" and cable is not None:
             if cable.kind == "balanced" and not balanced:
                 warnings.append(f"balanced line {element.label} is fed from the unbalanced port of {source} with no "
@@ -234,7 +232,7 @@ def _balance_warnings(feed):
                                 "the coax and a shack that is part of the antenna")
             balanced, source = cable.kind == "balanced", element.label
         elif element.kind in ("balun", "tuner"):
-            balanced, source = bool(getattr(element, "output_balanced", False)), element.label
+            balanced, source = bool(element.output_balanced), element.label
         elif element.kind == "choke":  # a common-mode choke is a 1:1 current balun
             balanced, source = True, element.label
     return warnings
@@ -244,8 +242,7 @@ def _element_notices(feed, frequency_hz, labels):
     """Warnings that elements raise about themselves (a weak choke, say)."""
     notices = []
     for element in feed:
-        if hasattr(element, "notices"):
-            notices += element.notices(frequency_hz, labels)
+        notices += element.notices(frequency_hz, labels)
     return notices
 
 
@@ -279,7 +276,7 @@ def _element_budgets(station, solution, designs, db_below_radio, dissipated_w, s
     elements, warnings = [], []
     for k, element in enumerate(station.feed):
         v_in, i_in = solution.voltage_v[..., k, :], solution.current_a[..., k, :]
-        readings = element.readings(v_in, i_in, phase_mean, designs.get(k)) if hasattr(element, "readings") else {}
+        readings = element.readings(v_in, i_in, phase_mean, designs.get(k))
         if element.kind == "line":
             stress, warned = safety.line_stress(solution, k, element, f, station.labels, swr_only,
                                                 station.duty_factor * station.transmit_fraction)

@@ -20,7 +20,8 @@ import numpy as np
 
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import CompareSpec, Station
-from linecalc.elements.parts import Attenuating, Line, Transformer, closed_form_line_loss_db
+from linecalc.elements import Attenuating, Line, Transformer
+from linecalc.physics.twoports import closed_form_line_loss_db
 from linecalc.errors import InputError
 
 # Loss of the balun or choke inserted by a change of line kind [dB]: the station-file defaults.
@@ -112,7 +113,7 @@ def _offers_balanced(element) -> bool:
         return False  # the radio's port
     if element.kind == "line":
         return element.cable.kind == "balanced"
-    return element.kind == "choke" or bool(getattr(element, "output_balanced", False))
+    return element.kind == "choke" or bool(element.output_balanced)
 
 
 def _with_cable(feed, index, cable, z_ref_ohm):
