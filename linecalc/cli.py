@@ -7,13 +7,12 @@ from __future__ import annotations
 import argparse
 import sys
 import warnings
-from linecalc.errors import InputError
+from linecalc import __version__
+from linecalc.errors import InputError, StationError
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
 
-# Frequencies of the `cables` listing [Hz]: 80 m, 20 m, 10 m, 2 m and 70 cm.
-LISTING_FREQUENCIES_HZ = (3.6e6, 14.2e6, 28.5e6, 146e6, 435e6)
 
 
 class _Parser(argparse.ArgumentParser):
@@ -25,6 +24,7 @@ class _Parser(argparse.ArgumentParser):
 
 def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(prog="linecalc", description="Feedline and station loss budgets, band by band.")
+    parser.add_argument("--version", action="version", version=f"linecalc {__version__}")
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
     budget = commands.add_parser("budget", help="SWR at both ends, losses and watts at the antenna, per band")
@@ -97,18 +97,6 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-def _solve(station):
-    """Solve a loaded station; a station that cannot be solved as described is bad input."""
-    from linecalc.studies.budget import solve_budget
-    from linecalc.studies.station import BudgetError
-    from linecalc.errors import StationError
-
-    try:
-        return solve_budget(station)
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
-
-
 def _station_paths(arguments):
     """The files named, with each folder replaced by its *.yaml files in name order."""
     from pathlib import Path
@@ -120,29 +108,17 @@ def _station_paths(arguments):
     return paths
 
 
-def _sweep(station, points):
-    """Every band of the station edge to edge; a station that cannot be swept is bad input."""
-    from linecalc.studies.band_sweep import solve_band_sweeps
-    from linecalc.studies.station import BudgetError
-    from linecalc.errors import StationError
-
-    try:
-        return solve_band_sweeps(station, points)[1]
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
-
-
-def _export_radio(args, station, result, sweeps):
+def _export_radio(args, station, result):
     """--radio-s1p: the impedance the radio sees, across the sweep if there is one."""
     import numpy as np
 
-    from linecalc.io.station_file import input_files
+    from linecalc import api
 
     if result.z_radio_ohm is None:
         raise OptionError("--radio-s1p: an antenna given by SWR alone has no phase, so no impedance at the radio")
-    if sweeps:
-        frequency = np.concatenate([s.frequency_hz for s in sweeps])
-        z = np.concatenate([s.z_radio_ohm for s in sweeps])
+    if result.sweeps:
+        frequency = np.concatenate([s.frequency_hz for s in result.sweeps])
+        z = np.concatenate([s.z_radio_ohm for s in result.sweeps])
     else:
         frequency, z = result.frequency_hz, result.z_radio_ohm
     order = np.argsort(frequency, kind="stable")
@@ -150,15 +126,14 @@ def _export_radio(args, station, result, sweeps):
     keep = np.concatenate([[True], np.diff(frequency) > 0])  # a band centre may repeat a sweep point
     _write_s1p(args.radio_s1p, frequency[keep], z[keep], station.reference_impedance_ohm,
                f"impedance at the radio of {station.name}, computed by linecalc", args.force,
-               input_files(station.source_file))
+               api.input_files(station))
 
 
 def _run_budget(args) -> int:
     """One station: its result, or its error. Several: every result that can be had, each error on
     stderr, and exit status 2 if any station failed."""
-    from linecalc.render import tables as report
-    from linecalc.errors import StationError
-    from linecalc.io.station_file import load_station
+    from linecalc import api
+    from linecalc.render import csv_text, json_text, tables
 
     paths = _station_paths(args.station)
     if not paths:
@@ -169,31 +144,25 @@ def _run_budget(args) -> int:
         raise OptionError("--sweep: at least 2 points per band")
     if args.sweep is not None and args.format == "csv":
         raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
-    results, sweeps, failed = [], [], False
+    results, failed = [], False
     for path in paths:
         try:
-            station = load_station(path)
-            results.append(_solve(station))
-            sweeps.append(_sweep(station, args.sweep) if args.sweep else None)
+            station = api.load_station(path)
+            results.append(api.solve_budget(station, sweep_points=args.sweep))
         except StationError as exc:
             if len(paths) == 1:
                 raise
             print(str(exc), file=sys.stderr)
             failed = True
-            if len(results) > len(sweeps):
-                results.pop()
     if args.radio_s1p:
-        _export_radio(args, station, results[0], sweeps[0])
+        _export_radio(args, station, results[0])
     if args.format == "json":
-        documents = [report.budget_document(r) for r in results]
-        for document, sweep in zip(documents, sweeps):
-            for row, band in zip(document["rows"], sweep or ()):
-                row["sweep"] = report.sweep_document(band)
-        sys.stdout.write(report.to_json(documents[0] if len(paths) == 1 else documents))
+        documents = [r.to_dict() for r in results]
+        sys.stdout.write(json_text.to_json(documents[0] if len(paths) == 1 else documents))
     else:
-        render = {"table": report.budget_table, "csv": report.budget_csv}[args.format]
-        sys.stdout.write("\n".join(render(r) + (report.sweep_table(sw) if sw and args.format == "table" else "")
-                                   for r, sw in zip(results, sweeps)))
+        render = {"table": tables.budget_table, "csv": csv_text.budget_csv}[args.format]
+        sys.stdout.write("\n".join(render(r) + (tables.sweep_table(r.sweeps) if r.sweeps and args.format == "table"
+                                                 else "") for r in results))
     for result in results:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
@@ -205,52 +174,27 @@ class OptionError(InputError):
     """A bad command-line option value: exit status 2, naming the option."""
 
 
-def _compare_spec(args, spec):
-    """The station file's compare: key, extended by the command-line options."""
-    from linecalc.studies.station import CompareSpec
+def _run_compare(args) -> int:
+    from linecalc import api
     from linecalc.io.units import UnitError, parse_quantity
+    from linecalc.render import csv_text, json_text, tables
 
-    cables = tuple(spec.cables) if spec else ()
-    if args.cable:
-        from linecalc.io import cable_library as library
-
-        known = library.load_library()
-        for cable_id in args.cable:
-            if cable_id not in known:
-                near = library.nearest_ids(cable_id)
-                hint = f"; did you mean {', '.join(near)}?" if near else ""
-                raise OptionError(f"--cable: unknown cable id {cable_id!r}{hint}")
-            cables += ((cable_id, known[cable_id]),)
-    lengths = tuple(spec.lengths_m) if spec else ()
+    station = api.load_station(args.station)
+    lengths_m = ()
     if args.lengths:
         try:
-            lengths = tuple(parse_quantity(text, "m") for text in args.lengths)
+            lengths_m = tuple(parse_quantity(text, "m") for text in args.lengths)
         except UnitError as exc:
             raise OptionError(f"--lengths: {exc}") from None
-        if any(length <= 0 for length in lengths):
-            raise OptionError("--lengths: every length must be greater than zero")
-    return CompareSpec(main_line=args.main_line or (spec.main_line if spec else None), cables=cables,
-                       tuner_positions=args.tuner_positions or bool(spec and spec.tuner_positions),
-                       line=args.line or (spec.line if spec else None), lengths_m=lengths)
-
-
-def _run_compare(args) -> int:
-    from linecalc.render import tables as report
-    from linecalc.studies.station import BudgetError
-    from linecalc.studies.compare import CompareError, alternatives_from_spec, compare
-    from linecalc.errors import StationError
-    from linecalc.io.station_file import load_station_and_compare
-
-    station, spec = load_station_and_compare(args.station)
-    spec = _compare_spec(args, spec)
-    line = station.key_lines.get("compare") if spec else None
     try:
-        comparison = compare(station, alternatives_from_spec(station, spec))
-    except CompareError as exc:
-        raise StationError(station.source_file, line or station.key_lines.get("feed", 1), str(exc), "compare") from None
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
-    render = {"table": report.compare_table, "json": report.compare_json, "csv": report.compare_csv}[args.format]
+        comparison = api.solve_compare(station, cables=args.cable, tuner_positions=args.tuner_positions,
+                                       main_line=args.main_line, line=args.line, lengths_m=lengths_m)
+    except api.UnknownCableError as exc:
+        raise OptionError(f"--cable: {exc}") from None
+    except api.LengthError as exc:
+        raise OptionError(f"--lengths: {exc}") from None
+    render = {"table": tables.compare_table, "json": lambda c: json_text.to_json(c.to_dict()),
+              "csv": csv_text.compare_csv}[args.format]
     sys.stdout.write(render(comparison))
     for warning in comparison.warnings:
         print(f"warning: {warning}", file=sys.stderr)
@@ -258,14 +202,14 @@ def _run_compare(args) -> int:
 
 
 def _run_safety(args) -> int:
-    from linecalc.render import tables as report
-    from linecalc.io.station_file import load_station
+    from linecalc import api
+    from linecalc.render import json_text, tables
 
-    result = _solve(load_station(args.station))
+    result = api.solve_safety(api.load_station(args.station))
     if args.format == "json":
-        sys.stdout.write(report.budget_json(result))
+        sys.stdout.write(json_text.to_json(result.to_dict()))
     else:
-        sys.stdout.write(report.safety_table(result))
+        sys.stdout.write(tables.safety_table(result))
     for warning in result.warnings:
         print(f"warning: {warning}", file=sys.stderr)
     return EXIT_OK
@@ -282,33 +226,21 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
 
 
 def _run_feedpoint(args) -> int:
-    from linecalc.render import tables as report
-    from linecalc.studies.budget import recover_feedpoint
-    from linecalc.studies.station import BudgetError
-    from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna
-    from linecalc.errors import StationError
-    from linecalc.io.station_file import input_files, load_station
+    from linecalc import api
+    from linecalc.render import csv_text, json_text, tables
 
-    station = load_station(args.station)
-    antenna = station.antenna
-    if not (isinstance(antenna, MeasuredAntenna) and isinstance(antenna.table, ImpedanceTable)):
-        raise StationError(station.source_file, station.key_lines.get("antenna", 1),
-                           "feedpoint needs an antenna measured away from the feedpoint: touchstone: FILE (or "
-                           "impedance: {...}) with measured_at: radio or a meter label", "antenna")
-    try:
-        sweep = recover_feedpoint(station)
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
-    f = antenna.table.frequency_hz
-    render = {"table": report.feedpoint_table, "json": report.feedpoint_json, "csv": report.feedpoint_csv}[args.format]
-    sys.stdout.write(render(station.name, antenna.source, f, sweep))
+    station = api.load_station(args.station)
+    result = api.solve_feedpoint(station)
+    render = {"table": tables.feedpoint_table, "json": lambda r: json_text.to_json(r.to_dict()),
+              "csv": csv_text.feedpoint_csv}[args.format]
+    sys.stdout.write(render(result))
     if args.output:
-        _write_s1p(args.output, f, sweep.z_antenna_ohm, station.reference_impedance_ohm,
-                   f"feedpoint of {station.name}, recovered by linecalc from {antenna.source}", args.force,
-                   input_files(args.station))
-    if sweep.active.any():
-        print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(sweep.active.sum())} points: the "
-              "described path does not match the measurement there", file=sys.stderr)
+        _write_s1p(args.output, result.frequency_hz, result.sweep.z_antenna_ohm, station.reference_impedance_ohm,
+                   f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
+                   api.input_files(station))
+    if result.sweep.active.any():
+        print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(result.sweep.active.sum())} points: "
+              "the described path does not match the measurement there", file=sys.stderr)
     return EXIT_OK
 
 
@@ -346,22 +278,17 @@ def _length_option(name, text):
 
 
 def _run_advise(args) -> int:
-    from linecalc.render import tables as report
-    from linecalc.studies.length_advice import advise_station
+    from linecalc import api
     from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
-    from linecalc.studies.station import BudgetError
-    from linecalc.errors import StationError
-    from linecalc.io.station_file import load_station
+    from linecalc.render import json_text, tables
 
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
-    station = load_station(args.station)
+    station = api.load_station(args.station)
     try:
-        advice, f, rows = advise_station(station, args.line, low, high, step, points_per_band=args.points,
-                                         allow_large_scan=args.allow_large_scan, progress=_Progress("scanning"),
-                                         max_loss_db=args.max_loss)
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
+        result = api.solve_advice(station, line=args.line, length_from_m=low, length_to_m=high, step_m=step,
+                                  points_per_band=args.points, allow_large_scan=args.allow_large_scan,
+                                  progress=_Progress("scanning"), max_loss_db=args.max_loss)
     except LengthRangeError as exc:
         raise OptionError(f"--from/--to: {exc}") from None
     except StepError as exc:
@@ -370,55 +297,40 @@ def _run_advise(args) -> int:
         raise OptionError(f"--step: {exc} (--allow-large-scan)") from None
     except AdvisorInputError as exc:
         raise OptionError(f"--points: {exc}") from None
-    render = report.advice_json if args.format == "json" else report.advice_table
-    sys.stdout.write(render(station, advice, args.top))
+    if args.format == "json":
+        sys.stdout.write(json_text.to_json(result.to_dict(args.top)))
+    else:
+        sys.stdout.write(tables.advice_table(result, args.top))
     return EXIT_OK
 
 
 def _run_plot(args) -> int:
-    from linecalc.studies import figure_data as figures
-    from linecalc.studies.station import BudgetError
-    from linecalc.errors import StationError
-    from linecalc.io.station_file import load_station_and_compare
+    from linecalc import api
+    from linecalc.studies.figure_data import PlotProblem
 
-    station, spec = load_station_and_compare(args.station)
+    station = api.load_station(args.station)
     try:
-        figures.draw(args.kind, station, spec, args.output, sweep_points=args.sweep, line_label=args.line,
-                      force=args.force)
-    except BudgetError as exc:
-        raise StationError(station.source_file, station.key_lines.get(exc.key, 1), str(exc), exc.key) from None
-    except figures.PlotProblem as exc:
+        api.draw_figure(args.kind, station, args.output, sweep_points=args.sweep, line=args.line, force=args.force)
+    except PlotProblem as exc:
         raise OptionError(str(exc)) from None
     print(f"wrote {args.output}", file=sys.stderr)
     return EXIT_OK
 
 
 def _run_cables(args) -> int:
-    import json
+    from linecalc import api
+    from linecalc.render import json_text, tables
 
-    import numpy as np
-
-    from linecalc.io import cable_library as library
-    from linecalc.render import tables as report
-
-    cables = library.load_library()
-    frequency_hz = np.array(LISTING_FREQUENCIES_HZ)
-    rows = [(c.id, c.kind, c.z0_nominal_ohm, c.velocity_factor, c.description, c.matched_loss_db_per_m(frequency_hz),
-             (frequency_hz < c.data_range_hz[0]) | (frequency_hz > c.data_range_hz[1]))
-            for c in cables.values()]
+    listing = api.list_cables()
     if args.format == "json":
-        doc = [{"id": r[0], "kind": r[1], "z0_ohm": r[2], "velocity_factor": r[3], "description": r[4],
-                "loss_db_per_100m": {f"{f:g}": 100 * float(l) for f, l in zip(frequency_hz, r[5])}} for r in rows]
-        sys.stdout.write(json.dumps(doc, indent=2) + "\n")
+        sys.stdout.write(json_text.to_json(listing.to_dict()))
     else:
-        sys.stdout.write(report.cables_table(rows, frequency_hz))
+        sys.stdout.write(tables.cables_table(listing))
     return EXIT_OK
 
 
 def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
-    from linecalc.errors import StationError
-
     try:
         with warnings.catch_warnings():
             # a numerical warning (overflow, 0/0) means a number that cannot be trusted: stop
@@ -430,7 +342,7 @@ def main(argv=None) -> int:
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT
-    except OptionError as exc:
+    except InputError as exc:  # an option's value, or input that reached no station file
         print(f"linecalc {args.command}: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except BrokenPipeError:

@@ -14,7 +14,7 @@ from linecalc.studies.budget import solve_budget
 from linecalc.studies.compare import CompareError, alternatives_from_spec, compare
 from linecalc.studies.station import CompareSpec
 from linecalc.physics.twoports import closed_form_line_loss_db
-from linecalc.io.station_file import load_station, load_station_and_compare, parse_station_text
+from linecalc.io.station_file import load_station, parse_station_text
 
 ROOT = Path(__file__).resolve().parent.parent
 LINECALC = Path(sys.executable).parent / "linecalc"
@@ -89,7 +89,8 @@ def test_tuner_at_the_feedpoint_line_loses_only_its_matched_loss():
 
 
 def test_short_coax_exact_loss_moves_with_its_length_around_the_formula():
-    station, spec = load_station_and_compare(ROOT / "stations" / "doublet-wall-coax.yaml")
+    station = load_station(ROOT / "stations" / "doublet-wall-coax.yaml")
+    spec = station.compare
     comparison = compare(station, alternatives_from_spec(station, spec))
     study = comparison.line_study
     assert study.label == "wall coax"

@@ -190,11 +190,7 @@ def _compare_spec(doc, ctx) -> CompareSpec:
 
 
 def station_from_document(doc, file="<station>") -> Station:
-    """Validate a parsed station document and build the `Station`."""
-    return _station_and_compare(doc, file)[0]
-
-
-def _station_and_compare(doc, file):
+    """Validate a parsed station document and build the `Station` (with its ``compare:`` key)."""
     ctx = Context(file, "", getattr(doc, "line", 1))
     mapping(doc, ctx, required=("name", "radio", "antenna", "feed"),
             optional=("region", "bands", "frequencies", "compare"))
@@ -222,21 +218,16 @@ def _station_and_compare(doc, file):
     station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
                       frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, mode=mode,
                       duty_factor=duty, transmit_fraction=transmit_fraction, antenna_gain_dbi=gain_dbi,
-                      band_edges_hz=band_edges,
+                      band_edges_hz=band_edges, compare=spec,
                       source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
                                  "compare": ctx.child(doc, "compare").line})
-    return station, spec
+    return station
 
 
 def parse_station_text(text, file="<station>") -> Station:
     """Parse station YAML text; errors are `StationError` naming ``file``."""
     return station_from_document(load_yaml_text(text, file), file)
-
-
-def load_station(path) -> Station:
-    """Read and validate a station file."""
-    return load_station_and_compare(path)[0]
 
 
 def input_files(path) -> list[Path]:
@@ -255,11 +246,11 @@ def input_files(path) -> list[Path]:
     return [path] + ([path.parent / name.strip()] if isinstance(name, str) and name.strip() else [])
 
 
-def load_station_and_compare(path) -> tuple[Station, CompareSpec | None]:
-    """Read and validate a station file, with what its ``compare:`` key asks (None without one)."""
+def load_station(path) -> Station:
+    """Read and validate a station file."""
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8")
     except (OSError, UnicodeDecodeError) as exc:
         raise StationError(path, 0, f"cannot read the station file: {exc.strerror if isinstance(exc, OSError) else exc}") from None
-    return _station_and_compare(load_yaml_text(text, path), path)
+    return station_from_document(load_yaml_text(text, path), path)

@@ -17,6 +17,7 @@ from pathlib import Path
 
 import numpy as np
 from linecalc.errors import InputError
+from linecalc.studies import figure_data
 
 FIGURE_SIZE_IN = (10.0, 6.0)
 DPI = 100
@@ -474,3 +475,27 @@ def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, force=Fal
         ax.grid(True, axis="y", alpha=0.3)
         ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return _save(figure, path, force)
+
+
+def draw(data, path, *, force=False):
+    """Draw what `linecalc.studies.figure_data.figure_data` computed into ``path`` (.png or .svg).
+
+    Raises `PlotProblem` where the file cannot be written (it exists without ``force``, its
+    format is not PNG or SVG, its folder is missing).
+    """
+    try:
+        if isinstance(data, figure_data.SwrCurves):
+            return plot_swr(path, data.labels, data.frequency_hz, data.swr_antenna, data.swr_radio, force=force)
+        if isinstance(data, figure_data.SmithPoints):
+            return plot_smith(path, data.z_antenna_ohm, data.z_radio_ohm, data.z_ref_ohm, data.labels, force=force)
+        if isinstance(data, figure_data.LineVoltage):
+            return plot_line_voltage(path, data.labels, data.position_m, data.voltage_v, rating_v=data.rating_v,
+                                     line_label=data.line_label, force=force)
+        if isinstance(data, figure_data.CompareWatts):
+            return plot_compare(path, data.labels, data.power_antenna_w, radio_power_w=data.radio_power_w,
+                                force=force)
+        return plot_loss_budget(path, data, force=force)
+    except PlotExistsError as exc:
+        raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it ({exc})") from None
+    except (PlotInputError, FileNotFoundError) as exc:
+        raise figure_data.PlotProblem(f"{path}: {exc}") from None

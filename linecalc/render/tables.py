@@ -1,9 +1,7 @@
-"""Render results as text: tables (tabulate), the JSON document of DESIGN.md, and CSV."""
+"""Results as text tables (tabulate) for the terminal: budget, safety, sweeps, compare,
+feedpoint, advice and the cable library. Formatting only: nothing here solves."""
 from __future__ import annotations
 
-import csv
-import io
-import json
 import math
 
 import numpy as np
@@ -14,80 +12,6 @@ from linecalc.physics.exposure import CAUTIONS
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
                  "radio-end SWR are averages over every phase, and the loss range shows least and most.")
-
-
-def _finite_or_none(value):
-    """A float for JSON, or None where it is infinite or undefined (JSON has no infinity)."""
-    value = float(value)
-    return value if math.isfinite(value) else None
-
-
-def _json_value(value):
-    """A reading as JSON: booleans and text as they are, numbers finite or None."""
-    if isinstance(value, (bool, np.bool_)):
-        return bool(value)
-    if isinstance(value, (str, np.str_)):
-        return str(value)
-    return _finite_or_none(value)
-
-
-def _pair(z):
-    if z is None:
-        return None
-    return [_finite_or_none(z.real), _finite_or_none(z.imag)]
-
-
-def budget_document(result: BudgetResult) -> dict:
-    """The budget as the JSON document fixed in DESIGN.md (plus ``total_loss_db_range``)."""
-    rows = []
-    for i, label in enumerate(result.labels):
-        row = {
-            "label": label,
-            "frequency_hz": float(result.frequency_hz[i]),
-            "swr_antenna": _finite_or_none(result.swr_antenna[i]),
-            "swr_radio": _finite_or_none(result.swr_radio[i]),
-            "z_antenna_ohm": _pair(None if result.z_antenna_ohm is None else result.z_antenna_ohm[i]),
-            "z_radio_ohm": _pair(None if result.z_radio_ohm is None else result.z_radio_ohm[i]),
-            "matched_loss_db": _finite_or_none(result.matched_loss_db[i]),
-            "mismatch_loss_db": _finite_or_none(result.mismatch_loss_db[i]),
-            "total_loss_db": _finite_or_none(result.total_loss_db[i]),
-            "power_radio_w": _finite_or_none(result.power_radio_w[i]),
-            "power_antenna_w": _finite_or_none(result.power_antenna_w[i]),
-            "elements": [
-                {"kind": e.kind, "label": e.label, "loss_db": _finite_or_none(e.loss_db[i]),
-                 "matched_loss_db": _finite_or_none(e.matched_loss_db[i]),
-                 "dissipated_w": _finite_or_none(e.dissipated_w[i]),
-                 "swr_in": _finite_or_none(e.swr_in[i]), "swr_out": _finite_or_none(e.swr_out[i]),
-                 **{key: _json_value(values[i]) for key, values in e.readings.items()}}
-                for e in result.elements
-            ],
-        }
-        if result.total_loss_db_range is not None:
-            row["total_loss_db_range"] = [_finite_or_none(v) for v in result.total_loss_db_range[i]]
-        if result.measured:
-            row["measured"] = {key: _finite_or_none(values[i]) for key, values in result.measured.items()}
-        if result.exposure:
-            row["exposure"] = {key: _finite_or_none(values[i]) for key, values in result.exposure.items()}
-        rows.append(row)
-    return {
-        "station": result.station,
-        "reference_impedance_ohm": float(result.reference_impedance_ohm),
-        "radio_power_w": float(result.radio_power_w),
-        "mode": result.mode, "duty_factor": result.duty_factor, "transmit_fraction": result.transmit_fraction,
-        "antenna_gain_dbi": result.antenna_gain_dbi,
-        "rows": rows,
-        "warnings": list(result.warnings),
-        "cautions": list(CAUTIONS),
-    }
-
-
-def to_json(document) -> str:
-    """JSON text of a document built by this module (no NaN or infinity: those are null already)."""
-    return json.dumps(document, indent=2, allow_nan=False) + "\n"
-
-
-def budget_json(result: BudgetResult) -> str:
-    return to_json(budget_document(result))
 
 
 def _swr_text(swr):
@@ -225,76 +149,19 @@ def safety_table(result: BudgetResult) -> str:
     return "\n".join(lines) + "\n"
 
 
-def budget_csv(result: BudgetResult) -> str:
-    """A flat table: one line per row, the JSON fields plus each element's loss and heat."""
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    header = ["label", "frequency_hz", "swr_antenna", "swr_radio", "z_antenna_r_ohm", "z_antenna_x_ohm",
-              "z_radio_r_ohm", "z_radio_x_ohm", "matched_loss_db", "mismatch_loss_db", "total_loss_db",
-              "power_radio_w", "power_antenna_w"]
-    for e in result.elements:
-        header += [f"{e.label}:loss_db", f"{e.label}:dissipated_w"]
-    writer.writerow(header)
-    for i, label in enumerate(result.labels):
-        z_a = result.z_antenna_ohm[i] if result.z_antenna_ohm is not None else complex(np.nan, np.nan)
-        z_r = result.z_radio_ohm[i] if result.z_radio_ohm is not None else complex(np.nan, np.nan)
-        row = [label, result.frequency_hz[i], result.swr_antenna[i], result.swr_radio[i], z_a.real, z_a.imag,
-               z_r.real, z_r.imag, result.matched_loss_db[i], result.mismatch_loss_db[i], result.total_loss_db[i],
-               result.power_radio_w[i], result.power_antenna_w[i]]
-        for e in result.elements:
-            row += [e.loss_db[i], e.dissipated_w[i]]
-        writer.writerow(["" if isinstance(v, float) and math.isnan(v) else (f"{v:.10g}" if not isinstance(v, str) else v)
-                         for v in row])
-    return buffer.getvalue()
-
-
-def cables_table(rows, frequencies_hz) -> str:
-    """The cable library: id, kind, impedance, velocity factor and matched loss at a few frequencies.
-
-    ``rows`` holds (id, kind, z0_ohm, velocity_factor, description, loss_db_per_m array,
-    outside-data-range mask).
-    """
-    headers = ["id", "kind", "Z0 ohm", "VF"] + [f"{f / 1e6:g} MHz" for f in frequencies_hz] + ["description"]
+def cables_table(listing) -> str:
+    """The cable library (a `CableListing`): id, kind, impedance, velocity factor and matched
+    loss at the listing's frequencies."""
+    headers = ["id", "kind", "Z0 ohm", "VF"] + [f"{f / 1e6:g} MHz" for f in listing.frequency_hz] + ["description"]
     body = []
-    for cable_id, kind, z0, vf, description, loss_db_per_m, outside in rows:
+    for cable, loss_db_per_m, outside in zip(listing.cables, listing.loss_db_per_m, listing.outside_data):
         cells = [f"{100 * loss:.2f} / {100 * 0.3048 * loss:.2f}{' *' if out else ''}"
                  for loss, out in zip(loss_db_per_m, outside)]
-        body.append([cable_id, kind, f"{z0:.0f}", f"{vf:.2f}", *cells, description])
+        body.append([cable.id, cable.kind, f"{cable.z0_nominal_ohm:.0f}", f"{cable.velocity_factor:.2f}", *cells,
+                     cable.description])
     return ("Matched loss in dB per 100 m / per 100 ft\n\n"
             + tabulate(body, headers=headers, disable_numparse=True)
             + "\n\n* outside the cable's data: extrapolated by its loss model\n")
-
-
-def compare_document(comparison) -> dict:
-    """The comparison as JSON: per row, each alternative's watts and loss, the winner and margin."""
-    rows = []
-    for i, label in enumerate(comparison.labels):
-        rows.append({
-            "label": label,
-            "frequency_hz": float(comparison.frequency_hz[i]),
-            "alternatives": [{"name": name, "power_antenna_w": float(comparison.power_antenna_w[k, i]),
-                              "total_loss_db": _finite_or_none(comparison.total_loss_db[k, i]),
-                              "swr_radio": _finite_or_none(comparison.results[k].swr_radio[i])}
-                             for k, name in enumerate(comparison.names)],
-            "winner": comparison.names[comparison.winner[i]],
-            "margin_db": _finite_or_none(comparison.margin_db[i]),
-        })
-    doc = {"station": comparison.station, "alternatives": list(comparison.names), "rows": rows,
-           "warnings": list(comparison.warnings)}
-    study = comparison.line_study
-    if study is not None:
-        doc["line_study"] = {
-            "label": study.label, "length_m": [float(v) for v in study.length_m],
-            "rows": [{"label": label,
-                      "exact_loss_db": [_finite_or_none(v) for v in study.exact_loss_db[:, i]],
-                      "closed_form_loss_db": [_finite_or_none(v) for v in study.closed_form_loss_db[:, i]],
-                      "swr_load": [_finite_or_none(v) for v in study.swr_load[:, i]]}
-                     for i, label in enumerate(comparison.labels)]}
-    return doc
-
-
-def compare_json(comparison) -> str:
-    return json.dumps(compare_document(comparison), indent=2, allow_nan=False) + "\n"
 
 
 def compare_table(comparison) -> str:
@@ -320,46 +187,15 @@ def compare_table(comparison) -> str:
     return "\n".join(lines) + "\n"
 
 
-def compare_csv(comparison) -> str:
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["label", "frequency_hz", "alternative", "power_antenna_w", "total_loss_db", "winner", "margin_db"])
-    for i, label in enumerate(comparison.labels):
-        for k, name in enumerate(comparison.names):
-            writer.writerow([label, f"{comparison.frequency_hz[i]:.10g}", name,
-                             f"{comparison.power_antenna_w[k, i]:.10g}", f"{comparison.total_loss_db[k, i]:.10g}",
-                             "yes" if comparison.winner[i] == k else "", f"{comparison.margin_db[i]:.10g}"])
-    return buffer.getvalue()
-
-
-def feedpoint_rows(frequency_hz, sweep):
-    """(MHz, R, X, SWR, error multiplier, active) per point of a recovered feedpoint sweep."""
-    return [(f / 1e6, z.real, z.imag, swr, m, bool(a)) for f, z, swr, m, a in
-            zip(frequency_hz, sweep.z_antenna_ohm, sweep.swr_antenna, sweep.sensitivity, sweep.active)]
-
-
-def feedpoint_table(station_name, source, frequency_hz, sweep) -> str:
-    body = [[f"{mhz:.4f}", f"{r:.1f}", f"{x:+.1f}", _swr_text(swr), f"{m:.2f}", "ACTIVE" if a else ""]
-            for mhz, r, x, swr, m, a in feedpoint_rows(frequency_hz, sweep)]
-    return (f"{station_name}: {source} moved to the antenna feedpoint\n\n"
+def feedpoint_table(result) -> str:
+    """A measured sweep moved to the feedpoint (a `FeedpointResult`): one line per point."""
+    sweep = result.sweep
+    body = [[f"{f / 1e6:.4f}", f"{z.real:.1f}", f"{z.imag:+.1f}", _swr_text(swr), f"{m:.2f}", "ACTIVE" if a else ""]
+            for f, z, swr, m, a in zip(result.frequency_hz, sweep.z_antenna_ohm, sweep.swr_antenna,
+                                       sweep.sensitivity, sweep.active)]
+    return (f"{result.station}: {result.source} moved to the antenna feedpoint\n\n"
             + tabulate(body, headers=["MHz", "R ohm", "X ohm", "SWR", "error multiplier", ""], disable_numparse=True,
                        stralign="right") + "\n")
-
-
-def feedpoint_json(station_name, source, frequency_hz, sweep) -> str:
-    return to_json({"station": station_name, "source": source, "points": [
-        {"frequency_hz": float(f), "z_antenna_ohm": [_finite_or_none(r), _finite_or_none(x)],
-         "swr_antenna": _finite_or_none(swr), "sensitivity": _finite_or_none(m), "active": a}
-        for f, (_, r, x, swr, m, a) in zip(frequency_hz, feedpoint_rows(frequency_hz, sweep))]})
-
-
-def feedpoint_csv(station_name, source, frequency_hz, sweep) -> str:
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["frequency_hz", "r_ohm", "x_ohm", "swr_antenna", "sensitivity", "active"])
-    for f, (_, r, x, swr, m, a) in zip(frequency_hz, feedpoint_rows(frequency_hz, sweep)):
-        writer.writerow([f"{f:.10g}", f"{r:.10g}", f"{x:.10g}", f"{swr:.10g}", f"{m:.10g}", "yes" if a else ""])
-    return buffer.getvalue()
 
 
 def _mhz(value):
@@ -389,41 +225,21 @@ def sweep_table(sweeps) -> str:
     return "\n".join(lines) + "\n"
 
 
-def sweep_document(sweep) -> dict:
-    st = sweep.statistics
-    if st is None:
-        return {"frequency_hz": [float(f) for f in sweep.frequency_hz],
-                "swr_antenna": _json_list(sweep.swr_antenna), "swr_radio": _json_list(sweep.swr_radio)}
-
-    def pair(values):
-        return {"antenna": _json_list(values[0]), "radio": _json_list(values[1])}
-
-    return {"frequency_hz": [float(f) for f in sweep.frequency_hz],
-            "swr_antenna": _json_list(sweep.swr_antenna), "swr_radio": _json_list(sweep.swr_radio),
-            "swr_min": {"antenna": _finite_or_none(st.swr_min[0]), "radio": _finite_or_none(st.swr_min[1])},
-            "frequency_swr_min_hz": {"antenna": _finite_or_none(st.frequency_swr_min_hz[0]),
-                                     "radio": _finite_or_none(st.frequency_swr_min_hz[1])},
-            "swr_limits": list(st.swr_limits), "bandwidth_hz": pair(st.bandwidth_hz),
-            "lower_hz": pair(st.lower_hz), "upper_hz": pair(st.upper_hz)}
-
-
-def _json_list(values):
-    return [_finite_or_none(v) for v in np.ravel(values)]
-
-
 def _window_rows(windows, top):
     return [[f"{w.start_m:.2f}{' <' if w.at_range_start else ''}", f"{w.end_m:.2f}{' >' if w.at_range_end else ''}",
              f"{w.width_m:.2f}", f"{w.best_length_m:.2f}", f"{w.best_tuner_loss_db:.2f}",
              f"{w.worst_tuner_loss_db:.2f}", f"{w.worst_voltage_v:.0f}"] for w in windows[:top]]
 
 
-def advice_table(station, advice, top) -> str:
-    """The length windows where the tuner matches on every band, by loss and by line voltage."""
+def advice_table(result, top) -> str:
+    """The length windows where the tuner matches on every band, by loss and by line voltage
+    (an `AdviceResult`; ``top`` windows in each list)."""
+    advice = result.advice
     lengths = advice.length_m
     share = 100 * advice.matchable.mean()
     limit = sum(w.end_m - w.start_m for w in advice.windows)
     headers = ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
-    lines = [f"{station.name}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
+    lines = [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
              f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
              f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} windows "
              f"({limit:.2f} m in all) meet the conditions.",
@@ -443,19 +259,3 @@ def advice_table(station, advice, top) -> str:
     return "\n".join(lines) + "\n"
 
 
-def advice_json(station, advice, top) -> str:
-    def window(w):
-        return {"start_m": w.start_m, "end_m": w.end_m, "best_length_m": w.best_length_m,
-                "best_tuner_loss_db": _finite_or_none(w.best_tuner_loss_db),
-                "worst_tuner_loss_db": _finite_or_none(w.worst_tuner_loss_db),
-                "worst_voltage_v": _finite_or_none(w.worst_voltage_v),
-                "at_range_start": w.at_range_start, "at_range_end": w.at_range_end}
-
-    return to_json({"station": station.name, "network": advice.network,
-                    "length_m": {"from": float(advice.length_m[0]), "to": float(advice.length_m[-1]),
-                                 "count": int(advice.length_m.size)},
-                    "frequency_hz": [float(f) for f in advice.frequency_hz],
-                    "matchable_fraction": float(advice.matchable.mean()),
-                    "windows": [window(w) for w in advice.windows],
-                    "windows_by_voltage": [window(w) for w in advice.windows_by_voltage[:top]],
-                    "cautions": list(CAUTIONS)})

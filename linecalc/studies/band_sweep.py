@@ -10,6 +10,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from linecalc.studies.json_values import finite_or_none, json_list
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import BudgetError, Station
 from linecalc.physics.loads import outside_table
@@ -28,6 +29,24 @@ class BandSweep:
     swr_radio: np.ndarray
     statistics: SweepStatistics | None
     z_radio_ohm: np.ndarray | None
+
+    def to_dict(self) -> dict:
+        """The ``sweep`` object of a budget row in ``linecalc budget --sweep N --format json``."""
+        st = self.statistics
+        curves = {"frequency_hz": [float(f) for f in self.frequency_hz],
+                  "swr_antenna": json_list(self.swr_antenna), "swr_radio": json_list(self.swr_radio)}
+        if st is None:
+            return curves
+
+        def ends(values):
+            return {"antenna": json_list(values[0]), "radio": json_list(values[1])}
+
+        return {**curves,
+                "swr_min": {"antenna": finite_or_none(st.swr_min[0]), "radio": finite_or_none(st.swr_min[1])},
+                "frequency_swr_min_hz": {"antenna": finite_or_none(st.frequency_swr_min_hz[0]),
+                                         "radio": finite_or_none(st.frequency_swr_min_hz[1])},
+                "swr_limits": list(st.swr_limits), "bandwidth_hz": ends(st.bandwidth_hz),
+                "lower_hz": ends(st.lower_hz), "upper_hz": ends(st.upper_hz)}
 
 
 def sweep_points(station: Station, points: int):

@@ -9,16 +9,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from linecalc.physics import deembed
 from linecalc.studies import stress as safety
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
 from linecalc.physics.cascade import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
+from linecalc.physics.exposure import CAUTIONS
+from linecalc.studies.json_values import finite_or_none, json_value, pair
+from linecalc.studies.measured import PHASE_SAMPLES, measured_antenna_load
 from linecalc.studies.station import BudgetError, Station
 
-# Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
-# converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
-# least/most loss to a few thousandths of a dB.
-PHASE_SAMPLES = 180
 
 
 @dataclass(frozen=True)
@@ -67,83 +65,53 @@ class BudgetResult:
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
     antenna_gain_dbi: float = 2.15
+    sweeps: tuple | None = None  # per row, its `BandSweep` (budget --sweep), or None
 
-
-# Above this multiplier a reflection error at the measuring point grows too much on its way to
-# the antenna: the recovered antenna SWR is flagged as uncertain.
-SENSITIVITY_WARNING = 3.0
-# The reflection error of a good amateur instrument, for the uncertainty figure in that warning
-# (common practice: |dG| of about 0.01 to 0.03 for analysers after calibration).
-INSTRUMENT_RHO_ERROR = 0.02
-
-
-def _measurement_path(station, frequency_hz):
-    """Chain matrices from the measuring point to the antenna; a tuner there is refused."""
-    path = station.feed[station.antenna.node:]
-    for element in path:
-        if element.adapts_to_load:
-            raise BudgetError(f"tuner {element.label} sits between the measuring point and the antenna: its "
-                              "setting depends on the antenna, so the measurement cannot be moved through it",
-                              "antenna")
-    return [element.abcd(frequency_hz) for element in path]
-
-
-def _feeding_z0(station, frequency_hz):
-    """The characteristic impedance that the antenna's SWR is taken against: that of the element
-    feeding the antenna, or the reference impedance with no feed."""
-    if station.feed:
-        return station.feed[-1].port_z0_ohm(frequency_hz)[1]
-    return np.full(np.shape(frequency_hz), complex(station.reference_impedance_ohm))
-
-
-def recover_feedpoint(station: Station) -> deembed.DeembeddedSweep:
-    """A measured impedance sweep moved from its measuring point to the antenna, at its own frequencies."""
-    measured = station.antenna.table
-    f = measured.frequency_hz
-    return deembed.deembed_sweep(_measurement_path(station, f), measured.impedance_ohm, station.reference_impedance_ohm,
-                                 _feeding_z0(station, f))
-
-
-def _measured_antenna(station, frequency_hz):
-    """Turn a measured antenna into a feedpoint load: an ImpedanceTable, or for an SWR reading the
-    antenna reflections of every phase of the reading (phases, nf) against the reference.
-
-    Returns (load, per-row facts for the report, warnings).
-    """
-    measured, z_ref, labels = station.antenna, station.reference_impedance_ohm, station.labels
-    warnings = []
-    if isinstance(measured.table, ImpedanceTable):
-        sweep = recover_feedpoint(station)
-        if np.any(sweep.active):
-            where = measured.table.frequency_hz[sweep.active] / 1e6
-            warnings.append(f"the feedpoint recovered from {measured.source} comes out active (|rho| > 1) at "
-                            f"{', '.join(f'{x:g}' for x in where[:8])}{' ...' if where.size > 8 else ''} MHz: the "
-                            "described path does not match the measurement there")
-        load = ImpedanceTable(measured.table.frequency_hz, sweep.z_antenna_ohm)
-        rho_measured = rho_from_impedance(measured.table.impedance_at(frequency_hz), z_ref)
-        sensitivity = deembed.sensitivity_multiplier(_measurement_path(station, frequency_hz), rho_measured, z_ref,
-                                                     _feeding_z0(station, frequency_hz))
-        facts = {"sensitivity": sensitivity}
-    else:
-        path = _measurement_path(station, frequency_hz)
-        reading = measured.table.rho_magnitude_at(frequency_hz)
-        against_line = deembed.antenna_range_from_reading(path, reading, z_ref, _feeding_z0(station, frequency_hz))
-        if np.any(against_line.undetermined):
-            rows = ", ".join(label for label, u in zip(labels, against_line.undetermined) if u)
-            raise BudgetError(f"{measured.source} cannot pin the antenna down on {rows}: the path "
-                              "between them loses so much that even an open or a short at the antenna would read "
-                              "as well; measure closer to the antenna", "antenna")
-        load = deembed.antenna_range_from_reading(path, reading, z_ref, phase_samples=PHASE_SAMPLES).rho
-        sensitivity = against_line.sensitivity_max
-        facts = {"swr_antenna_least": against_line.swr_min, "swr_antenna_most": against_line.swr_max,
-                 "sensitivity": sensitivity}
-    uncertain = sensitivity > SENSITIVITY_WARNING
-    if np.any(uncertain):
-        rows = ", ".join(f"{label} (x{m:.1f}: a reflection error of {INSTRUMENT_RHO_ERROR} becomes "
-                         f"{INSTRUMENT_RHO_ERROR * m:.2f})" for label, m, u in zip(labels, sensitivity, uncertain) if u)
-        warnings.append(f"the antenna SWR recovered from {measured.source} is uncertain on {rows}: the path's loss "
-                        "multiplies any error of the measurement")
-    return load, facts, warnings
+    def to_dict(self) -> dict:
+        """The JSON document of ``linecalc budget --format json`` (and of ``safety``); every key
+        is described in the project's docs/json.md."""
+        rows = []
+        for i, label in enumerate(self.labels):
+            row = {
+                "label": label,
+                "frequency_hz": float(self.frequency_hz[i]),
+                "swr_antenna": finite_or_none(self.swr_antenna[i]),
+                "swr_radio": finite_or_none(self.swr_radio[i]),
+                "z_antenna_ohm": pair(None if self.z_antenna_ohm is None else self.z_antenna_ohm[i]),
+                "z_radio_ohm": pair(None if self.z_radio_ohm is None else self.z_radio_ohm[i]),
+                "matched_loss_db": finite_or_none(self.matched_loss_db[i]),
+                "mismatch_loss_db": finite_or_none(self.mismatch_loss_db[i]),
+                "total_loss_db": finite_or_none(self.total_loss_db[i]),
+                "power_radio_w": finite_or_none(self.power_radio_w[i]),
+                "power_antenna_w": finite_or_none(self.power_antenna_w[i]),
+                "elements": [
+                    {"kind": e.kind, "label": e.label, "loss_db": finite_or_none(e.loss_db[i]),
+                     "matched_loss_db": finite_or_none(e.matched_loss_db[i]),
+                     "dissipated_w": finite_or_none(e.dissipated_w[i]),
+                     "swr_in": finite_or_none(e.swr_in[i]), "swr_out": finite_or_none(e.swr_out[i]),
+                     **{key: json_value(values[i]) for key, values in e.readings.items()}}
+                    for e in self.elements
+                ],
+            }
+            if self.total_loss_db_range is not None:
+                row["total_loss_db_range"] = [finite_or_none(v) for v in self.total_loss_db_range[i]]
+            if self.measured:
+                row["measured"] = {key: finite_or_none(values[i]) for key, values in self.measured.items()}
+            if self.exposure:
+                row["exposure"] = {key: finite_or_none(values[i]) for key, values in self.exposure.items()}
+            if self.sweeps is not None:
+                row["sweep"] = self.sweeps[i].to_dict()
+            rows.append(row)
+        return {
+            "station": self.station,
+            "reference_impedance_ohm": float(self.reference_impedance_ohm),
+            "radio_power_w": float(self.radio_power_w),
+            "mode": self.mode, "duty_factor": self.duty_factor, "transmit_fraction": self.transmit_fraction,
+            "antenna_gain_dbi": self.antenna_gain_dbi,
+            "rows": rows,
+            "warnings": list(self.warnings),
+            "cautions": list(CAUTIONS),
+        }
 
 
 def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
@@ -313,7 +281,7 @@ def solve_budget(station: Station) -> BudgetResult:
 
     measured_facts, measured_warnings = {}, []
     if isinstance(station.antenna, MeasuredAntenna):
-        load, measured_facts, measured_warnings = _measured_antenna(station, f)
+        load, measured_facts, measured_warnings = measured_antenna_load(station, f)
         swr_only = isinstance(station.antenna.table, SwrTable)
         rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
     else:

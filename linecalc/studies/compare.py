@@ -19,6 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from linecalc.studies.budget import BudgetResult, solve_budget
+from linecalc.studies.json_values import finite_or_none
 from linecalc.studies.station import CompareSpec, Station
 from linecalc.elements import Attenuating, Line, Transformer
 from linecalc.physics.twoports import closed_form_line_loss_db
@@ -91,6 +92,34 @@ class Comparison:
     margin_db: np.ndarray
     warnings: tuple[str, ...] = ()
     line_study: LineStudy | None = None
+
+    def to_dict(self) -> dict:
+        """The JSON document of ``linecalc compare --format json``: per row, each alternative's
+        watts and loss, the winner and its margin."""
+        rows = []
+        for i, label in enumerate(self.labels):
+            rows.append({
+                "label": label,
+                "frequency_hz": float(self.frequency_hz[i]),
+                "alternatives": [{"name": name, "power_antenna_w": float(self.power_antenna_w[k, i]),
+                                  "total_loss_db": finite_or_none(self.total_loss_db[k, i]),
+                                  "swr_radio": finite_or_none(self.results[k].swr_radio[i])}
+                                 for k, name in enumerate(self.names)],
+                "winner": self.names[self.winner[i]],
+                "margin_db": finite_or_none(self.margin_db[i]),
+            })
+        doc = {"station": self.station, "alternatives": list(self.names), "rows": rows,
+               "warnings": list(self.warnings)}
+        study = self.line_study
+        if study is not None:
+            doc["line_study"] = {
+                "label": study.label, "length_m": [float(v) for v in study.length_m],
+                "rows": [{"label": label,
+                          "exact_loss_db": [finite_or_none(v) for v in study.exact_loss_db[:, i]],
+                          "closed_form_loss_db": [finite_or_none(v) for v in study.closed_form_loss_db[:, i]],
+                          "swr_load": [finite_or_none(v) for v in study.swr_load[:, i]]}
+                         for i, label in enumerate(self.labels)]}
+        return doc
 
 
 def main_line_index(feed, label=None) -> int:

@@ -4,9 +4,12 @@ band. Orchestration only; the scan itself is `advisor.advise_length`.
 from __future__ import annotations
 
 import dataclasses
+from dataclasses import dataclass
 
 import numpy as np
 
+from linecalc.physics.exposure import CAUTIONS
+from linecalc.studies.json_values import finite_or_none
 from linecalc.physics.length_scan import LengthAdvice, advise_length, find_windows
 from linecalc.studies.station import BudgetError, Station
 from linecalc.studies.compare import CompareError, main_line_index
@@ -14,6 +17,38 @@ from linecalc.physics.loads import ImpedanceTable, outside_table
 
 # Points per band row for the scan: both edges and the centre.
 POINTS_PER_BAND = 3
+# Windows listed by default (linecalc advise --top).
+TOP_WINDOWS = 8
+
+
+@dataclass(frozen=True, eq=False)
+class AdviceResult:
+    """The length scan of one station: the advice, the frequencies scanned [Hz] and the row of each."""
+
+    station: str
+    advice: LengthAdvice
+    frequency_hz: np.ndarray
+    rows: np.ndarray
+
+    def to_dict(self, top: int = TOP_WINDOWS) -> dict:
+        """The JSON document of ``linecalc advise --format json`` (``top`` windows by voltage)."""
+        advice = self.advice
+
+        def window(w):
+            return {"start_m": w.start_m, "end_m": w.end_m, "best_length_m": w.best_length_m,
+                    "best_tuner_loss_db": finite_or_none(w.best_tuner_loss_db),
+                    "worst_tuner_loss_db": finite_or_none(w.worst_tuner_loss_db),
+                    "worst_voltage_v": finite_or_none(w.worst_voltage_v),
+                    "at_range_start": w.at_range_start, "at_range_end": w.at_range_end}
+
+        return {"station": self.station, "network": advice.network,
+                "length_m": {"from": float(advice.length_m[0]), "to": float(advice.length_m[-1]),
+                             "count": int(advice.length_m.size)},
+                "frequency_hz": [float(f) for f in advice.frequency_hz],
+                "matchable_fraction": float(advice.matchable.mean()),
+                "windows": [window(w) for w in advice.windows],
+                "windows_by_voltage": [window(w) for w in advice.windows_by_voltage[:top]],
+                "cautions": list(CAUTIONS)}
 
 
 def scan_frequencies(station: Station, points_per_band=POINTS_PER_BAND):
@@ -48,7 +83,7 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
 
     Returns
     -------
-    (LengthAdvice, frequency_hz, row index of each frequency)
+    AdviceResult
     """
     if not isinstance(station.antenna, ImpedanceTable):
         raise BudgetError("the length advisor needs the antenna's impedance at its feedpoint (impedance: {...} "
@@ -78,4 +113,4 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
         allow_large_scan=allow_large_scan, progress=progress)
     if max_loss_db is not None:
         advice = within_loss(advice, max_loss_db)
-    return advice, f, rows
+    return AdviceResult(station.name, advice, f, rows)

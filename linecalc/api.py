@@ -1,0 +1,155 @@
+"""The public Python API: load a station, run a study, get a result whose ``to_dict()`` is the
+JSON document the command prints. The `linecalc` command is a thin shell over these functions.
+
+Every function raises a `linecalc.LinecalcError`; bad input is a `linecalc.InputError`, and a
+station that loads but cannot be solved as described is a `linecalc.StationError` naming its
+file, line and key path, as the command prints it.
+"""
+from __future__ import annotations
+
+from pathlib import Path
+
+from linecalc.errors import InputError, StationError
+from linecalc.io import cable_library, station_file
+from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
+from linecalc.studies import budget, length_advice, measured
+from linecalc.studies import compare as compare_study
+from linecalc.studies import figure_data
+from linecalc.studies.band_sweep import solve_band_sweeps
+from linecalc.studies.cable_listing import LISTING_FREQUENCIES_HZ, CableListing, cable_listing
+from linecalc.studies.station import CompareSpec, Station, errors_located, located
+
+
+def load_station(source) -> Station:
+    """Read and validate a station.
+
+    Parameters
+    ----------
+    source : str or os.PathLike
+        A station file's path, or the YAML text itself (a ``str`` holding a line break).
+
+    Returns
+    -------
+    Station
+        SI floats throughout; its ``compare`` holds the file's ``compare:`` key (or None).
+    """
+    if isinstance(source, str) and "\n" in source:
+        return station_file.parse_station_text(source)
+    return station_file.load_station(source)
+
+
+def solve_budget(station: Station, *, sweep_points: int | None = None) -> budget.BudgetResult:
+    """The loss budget of every row (band or frequency): SWR at both ends, losses, watts.
+
+    With ``sweep_points``, each band is also swept edge to edge at that many points (the
+    command's ``--sweep N``), and the result's ``sweeps`` holds one `BandSweep` per row.
+    ``to_dict()`` equals ``linecalc budget --format json`` (with ``--sweep N``).
+    """
+    with errors_located(station):
+        result = budget.solve_budget(station)
+        if sweep_points is not None:
+            result = _with_sweeps(result, solve_band_sweeps(station, sweep_points)[1])
+    return result
+
+
+def _with_sweeps(result, sweeps):
+    import dataclasses
+
+    return dataclasses.replace(result, sweeps=tuple(sweeps))
+
+
+def solve_safety(station: Station) -> budget.BudgetResult:
+    """The budget with its safety figures (voltage and current maxima on lines and tuner parts
+    at PEP, RF-exposure distances): ``linecalc safety``. Its ``to_dict()`` is the same document
+    as the budget's, which carries those figures."""
+    return solve_budget(station)
+
+
+def solve_compare(station: Station, *, cables=(), tuner_positions=False, main_line=None, line=None,
+                  lengths_m=()) -> compare_study.Comparison:
+    """Alternatives of the station ranked band by band: ``linecalc compare``.
+
+    The station file's ``compare:`` key is extended by these arguments, as by the command's
+    options: ``cables`` library ids for the main line, ``tuner_positions`` the tuner at either
+    end of the main line, ``main_line`` the line to replace (default the longest), ``line`` and
+    ``lengths_m`` [m] other lengths of a line.
+    """
+    spec = _compare_spec(station.compare, cables, tuner_positions, main_line, line, lengths_m)
+    try:
+        with errors_located(station):
+            return compare_study.compare(station, compare_study.alternatives_from_spec(station, spec))
+    except compare_study.CompareError as exc:
+        raise located(station, budget.BudgetError(str(exc), "compare"),
+                      station.key_lines.get("compare") or station.key_lines.get("feed", 1)) from None
+
+
+class UnknownCableError(InputError):
+    """A cable id that the library does not hold (the message suggests the nearest ones)."""
+
+
+class LengthError(InputError):
+    """A length that is zero or negative."""
+
+
+def _compare_spec(spec, cables, tuner_positions, main_line, line, lengths_m) -> CompareSpec:
+    """The station file's compare: spec extended by the arguments of `solve_compare`."""
+    chosen = tuple(spec.cables) if spec else ()
+    if cables:
+        known = cable_library.load_library()
+        for cable_id in cables:
+            if cable_id not in known:
+                near = cable_library.nearest_ids(cable_id)
+                hint = f"; did you mean {', '.join(near)}?" if near else ""
+                raise UnknownCableError(f"unknown cable id {cable_id!r}{hint}")
+            chosen += ((cable_id, known[cable_id]),)
+    lengths = tuple(spec.lengths_m) if spec else ()
+    if lengths_m:
+        if any(length <= 0 for length in lengths_m):
+            raise LengthError("every length must be greater than zero")
+        lengths = tuple(lengths_m)
+    return CompareSpec(main_line=main_line or (spec.main_line if spec else None), cables=chosen,
+                       tuner_positions=tuner_positions or bool(spec and spec.tuner_positions),
+                       line=line or (spec.line if spec else None), lengths_m=lengths)
+
+
+def solve_feedpoint(station: Station) -> measured.FeedpointResult:
+    """A sweep measured away from the feedpoint (``measured_at:``) moved to the antenna:
+    ``linecalc feedpoint``."""
+    with errors_located(station):
+        return measured.solve_feedpoint(station)
+
+
+def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=60.0, step_m=0.01,
+                 points_per_band=length_advice.POINTS_PER_BAND, max_loss_db=None, allow_large_scan=False,
+                 progress=None) -> length_advice.AdviceResult:
+    """Which lengths of the feeder (``line``, default the longest) let the tuner match on every
+    band: ``linecalc advise``. Lengths in metres; ``progress(done, total)`` is called as the
+    scan runs. ``to_dict(top)`` equals ``linecalc advise --top N --format json``."""
+    with errors_located(station):
+        return length_advice.advise_station(station, line, length_from_m, length_to_m, step_m,
+                                            points_per_band=points_per_band, allow_large_scan=allow_large_scan,
+                                            progress=progress, max_loss_db=max_loss_db)
+
+
+def list_cables(frequency_hz=LISTING_FREQUENCIES_HZ) -> CableListing:
+    """The cable library with each cable's matched loss at ``frequency_hz`` [Hz]: ``linecalc cables``."""
+    return cable_listing(cable_library.load_library().values(), frequency_hz)
+
+
+def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP_POINTS, line=None, force=False):
+    """Draw figure ``kind`` (swr, budget, smith, voltage, compare) of the station into ``path``
+    (.png or .svg, written atomically): ``linecalc plot``. Returns the matplotlib Figure."""
+    from linecalc.render import plots
+
+    with errors_located(station):
+        data = figure_data.figure_data(kind, station, sweep_points=sweep_points, line_label=line)
+    return plots.draw(data, path, force=force)
+
+
+def input_files(station: Station) -> list[Path]:
+    """The files a station reads (itself and its Touchstone sweep): an output may not replace them."""
+    return station_file.input_files(station.source_file)
+
+
+__all__ = ["StationError", "draw_figure", "input_files", "list_cables", "load_station", "solve_advice",
+           "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]
