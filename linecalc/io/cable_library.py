@@ -12,7 +12,10 @@ from __future__ import annotations
 import copy
 import difflib
 import functools
+import os
+from importlib import resources
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 import yaml
@@ -21,7 +24,18 @@ from linecalc.physics.cables import Cable, cable_from_points
 from linecalc.io.units import UnitError, parse_loss_db_per_m, parse_quantity
 from linecalc.errors import LinecalcError
 
-CABLE_DATA_DIR = Path(__file__).resolve().parent.parent.parent / "cable_data"
+if TYPE_CHECKING:
+    from importlib.resources.abc import Traversable
+
+# The YAML files live in the top-level folder cable_data/ of the repository, which pyproject.toml
+# maps to the package ``linecalc.cable_data``: they are package data, found the same way in an
+# installed wheel and in the editable install of a checkout (where this is that folder itself).
+# None in an install made before that mapping (a stale editable install): then only the
+# commands that need a cable fail, with a LibraryError that says to reinstall.
+try:
+    CABLE_DATA_DIR: Traversable | None = resources.files("linecalc.cable_data")
+except ModuleNotFoundError:
+    CABLE_DATA_DIR = None
 KINDS = ("coax", "balanced")
 MIN_POINTS = 3
 # The frequency at which the listing order compares losses [Hz] (inside every entry's range).
@@ -37,13 +51,19 @@ class LibraryError(LinecalcError, RuntimeError):
     """A cable-library file that cannot be read: a fault in the shipped data, not in user input."""
 
 
-def _read_files(folder: Path) -> list[tuple[Path, dict]]:
+def _read_files(folder: Traversable | str | os.PathLike) -> list[tuple[Traversable, dict]]:
     """Every entry of every ``*.yaml`` file in ``folder``, with the file it came from.
 
+    ``folder`` is a folder of package data (a `Traversable`) or a path on disk.
     A file holds one entry (a mapping) or a family of entries (a list of mappings).
     """
+    if isinstance(folder, (str, os.PathLike)):
+        folder = Path(folder)
+    if not folder.is_dir():
+        return []
     entries = []
-    for path in sorted(folder.glob("*.yaml")):
+    files = [item for item in folder.iterdir() if item.name.endswith(".yaml") and item.is_file()]
+    for path in sorted(files, key=lambda item: item.name):
         with path.open(encoding="utf-8") as stream:
             doc = yaml.load(stream, Loader=_FAST_SAFE_LOADER)
         docs = doc if isinstance(doc, list) else [doc]
@@ -55,11 +75,14 @@ def _read_files(folder: Path) -> list[tuple[Path, dict]]:
 
 
 @functools.lru_cache(maxsize=1)
-def _parsed_entries() -> tuple[tuple[Path, dict], ...]:
+def _parsed_entries() -> tuple[tuple[Traversable, dict], ...]:
+    if CABLE_DATA_DIR is None:
+        raise LibraryError("the cable library (package linecalc.cable_data) is not installed: "
+                           "reinstall linecalc (in a checkout: pip install -e .)")
     entries = _read_files(CABLE_DATA_DIR)
     if not entries:
         raise LibraryError(f"no cable files (*.yaml) in {CABLE_DATA_DIR}")
-    seen: dict[str, Path] = {}
+    seen: dict[str, Traversable] = {}
     for path, entry in entries:
         if entry["id"] in seen:
             raise LibraryError(f"{path}: cable id {entry['id']!r} is also in {seen[entry['id']]}")
@@ -91,7 +114,7 @@ def _value(entry: dict, key: str, where: str):
     return node["value"]
 
 
-def _build(path: Path, entry: dict) -> Cable:
+def _build(path: Traversable, entry: dict) -> Cable:
     where = f"{path.name} ({entry['id']})"
     kind = entry.get("kind")
     if kind not in KINDS:
