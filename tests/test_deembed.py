@@ -14,7 +14,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import minimize_scalar
 
-from linecalc.physics import deembed
+from linecalc.physics import cascade, deembed
 from linecalc import elements
 from linecalc.physics import twoports
 from linecalc.physics.cables import Cable
@@ -106,7 +106,7 @@ def test_non_reciprocal_path_against_scikit_rf_and_numpy():
     # numpy's general inverse and solver, on the product formed by numpy's matmul
     np.testing.assert_allclose(deembed.inverse_abcd(abcd), np.linalg.inv(abcd), rtol=1e-12)
     total = path[0] @ path[1]
-    np.testing.assert_allclose(deembed.cascade_abcd(path), total, rtol=1e-12)
+    np.testing.assert_allclose(cascade.cascade_abcd(path), total, rtol=1e-12)
     state = np.linalg.solve(total, np.stack([measured, np.ones_like(measured)], -1)[..., None])[..., 0]
     np.testing.assert_allclose(deembed.deembed_impedance(path, measured), state[:, 0] / state[:, 1], rtol=1e-9)
 

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from linecalc.elements.base import PartDefaults
-from linecalc.physics.cascade import swr_from_rho, wave_powers
+from linecalc.physics.cascade import cascade_abcd, swr_from_rho, wave_powers
 from linecalc.physics.lumped import part_impedance_ohm, series_abcd, shunt_abcd
 from linecalc.physics.twoports import attenuator_abcd, terminated_loss_db, transformer_abcd
 
@@ -72,7 +72,8 @@ class Transformer(PartDefaults):
     kind: str = "balun"
 
     def abcd(self, frequency_hz):
-        return attenuator_abcd(self.loss_db, self.z_ref_ohm, frequency_hz) @ transformer_abcd(self.impedance_ratio, frequency_hz)
+        return cascade_abcd([attenuator_abcd(self.loss_db, self.z_ref_ohm, frequency_hz),
+                             transformer_abcd(self.impedance_ratio, frequency_hz)])
 
     def port_z0_ohm(self, frequency_hz):
         z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))

@@ -61,6 +61,67 @@ class PathSolution:
     state_i: np.ndarray  # for reflections and impedances, which do not depend on scale
 
 
+def split_entries(abcd):
+    """The four entries A, B, C, D of chain matrices (..., 2, 2), each of shape (...)."""
+    return abcd[..., 0, 0], abcd[..., 0, 1], abcd[..., 1, 0], abcd[..., 1, 1]
+
+
+def apply_abcd(abcd, voltage, current):
+    """The port state at a two-port's input from the state at its output: [V, I] <- ABCD [V, I].
+
+    The 2x2 product is written out: numpy's matmul is slow on stacks of tiny matrices. Every
+    cascade of linecalc goes through this function or `cascade_entries`.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4 (ABCD matrix).
+    """
+    a, b, c, d = split_entries(abcd)
+    return a * voltage + b * current, c * voltage + d * current
+
+
+def walk_to_input(abcd_list, voltage, current):
+    """Carry a port state from the load end of a cascade to its input (the last matrix first).
+
+    A `ScaledAbcd` is applied without its scale: impedances and reflections do not depend on it.
+    """
+    for abcd in reversed(abcd_list):
+        voltage, current = apply_abcd(abcd.matrix if isinstance(abcd, ScaledAbcd) else abcd, voltage, current)
+    return voltage, current
+
+
+def cascade_entries(abcd_list):
+    """The four entries of the product of the chain matrices (identity for an empty list)."""
+    a, b, c, d = 1.0 + 0j, 0j, 0j, 1.0 + 0j
+    for abcd in abcd_list:
+        e11, e12, e21, e22 = split_entries(abcd)
+        a, b, c, d = a * e11 + b * e21, a * e12 + b * e22, c * e11 + d * e21, c * e12 + d * e22
+    return a, b, c, d
+
+
+def cascade_abcd(abcd_list):
+    """Chain matrix of a cascade of two-ports, the first element nearest the input.
+
+    Parameters
+    ----------
+    abcd_list : sequence of ndarray, each (..., nf, 2, 2), at least one
+        Chain matrices from the input toward the load; leading axes broadcast.
+
+    Returns
+    -------
+    ndarray, shape (..., nf, 2, 2)
+        The product M_1 M_2 ... M_n.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
+    """
+    if not abcd_list:
+        raise ValueError("cascade_abcd needs at least one chain matrix")
+    a, b, c, d = np.broadcast_arrays(*cascade_entries(abcd_list))
+    return np.stack([np.stack([a, b], -1), np.stack([c, d], -1)], -2)
+
+
 def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSolution:
     """Cascade the elements from the antenna back to the radio and scale to the radio's power.
 
@@ -109,8 +170,7 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
     for count, abcd in enumerate(reversed(abcd_list), 1):
         if isinstance(abcd, ScaledAbcd):
             abcd, log_scale = abcd.matrix, log_scale + abcd.log_scale
-        # the 2x2 product written out: numpy's matmul is slow on stacks of tiny matrices
-        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
+        v, i = apply_abcd(abcd, v, i)
         if count % NORMALIZE_EVERY == 0:
             # bring the state back near unit size by a power of two (exact) and count the powers
             _, shift = np.frexp(np.maximum(np.abs(v), np.abs(i) * z_ref_load_ohm))
@@ -161,11 +221,7 @@ def input_impedance(abcd_list, rho_load, z_ref_load_ohm):
     Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
     """
     rho_load = np.asarray(rho_load, dtype=complex)
-    v, i = 1 + rho_load, (1 - rho_load) / z_ref_load_ohm
-    for abcd in reversed(abcd_list):
-        if isinstance(abcd, ScaledAbcd):
-            abcd = abcd.matrix  # an overall factor does not change V/I
-        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
+    v, i = walk_to_input(abcd_list, 1 + rho_load, (1 - rho_load) / z_ref_load_ohm)
     return v / i
 
 

@@ -21,25 +21,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from linecalc.physics.cascade import swr_from_rho
+from linecalc.physics.cascade import cascade_entries, split_entries, swr_from_rho
 
 # Phase samples of a magnitude-only reading: one per degree. The least and most |rho| are exact
 # (closed form); only the phase-mean |rho| comes from the samples.
 DEFAULT_PHASE_SAMPLES = 360
-
-
-def _entries(abcd):
-    return abcd[..., 0, 0], abcd[..., 0, 1], abcd[..., 1, 0], abcd[..., 1, 1]
-
-
-def _cascade_entries(abcd_list):
-    """The four entries of the product of the chain matrices (identity for an empty list)."""
-    a, b, c, d = 1.0 + 0j, 0j, 0j, 1.0 + 0j
-    for abcd in abcd_list:
-        # the 2x2 product written out: numpy's matmul is slow on stacks of tiny matrices
-        e11, e12, e21, e22 = _entries(abcd)
-        a, b, c, d = a * e11 + b * e21, a * e12 + b * e22, c * e11 + d * e21, c * e12 + d * e22
-    return a, b, c, d
 
 
 def _inverse_entries(a, b, c, d):
@@ -48,29 +34,6 @@ def _inverse_entries(a, b, c, d):
     if np.any(det == 0):
         raise ValueError("a chain matrix is singular (ad - bc = 0): this path cannot be de-embedded")
     return d / det, -b / det, -c / det, a / det
-
-
-def cascade_abcd(abcd_list):
-    """Chain matrix of a cascade of two-ports, the first element nearest the input.
-
-    Parameters
-    ----------
-    abcd_list : sequence of ndarray, each (..., nf, 2, 2), at least one
-        Chain matrices from the input toward the load; leading axes broadcast.
-
-    Returns
-    -------
-    ndarray, shape (..., nf, 2, 2)
-        The product M_1 M_2 ... M_n.
-
-    References
-    ----------
-    Pozar, Microwave Engineering, 4th ed., section 4.4 (cascading ABCD matrices).
-    """
-    if not abcd_list:
-        raise ValueError("cascade_abcd needs at least one chain matrix")
-    a, b, c, d = np.broadcast_arrays(*_cascade_entries(abcd_list))
-    return np.stack([np.stack([a, b], -1), np.stack([c, d], -1)], -2)
 
 
 def inverse_abcd(abcd):
@@ -96,7 +59,7 @@ def inverse_abcd(abcd):
     Pozar, Microwave Engineering, 4th ed., section 4.4 (ABCD matrix; AD - BC = 1 for a
     reciprocal network).
     """
-    n11, n12, n21, n22 = _inverse_entries(*_entries(np.asarray(abcd, dtype=complex)))
+    n11, n12, n21, n22 = _inverse_entries(*split_entries(np.asarray(abcd, dtype=complex)))
     return np.stack([np.stack([n11, n12], -1), np.stack([n21, n22], -1)], -2)
 
 
@@ -140,7 +103,7 @@ def embed_impedance(abcd_list, z_load_ohm):
     Pozar, Microwave Engineering, 4th ed., section 4.4 (ABCD matrix of a cascade).
     """
     v, i = _state_from_impedance(z_load_ohm)
-    a, b, c, d = _cascade_entries(abcd_list)
+    a, b, c, d = cascade_entries(abcd_list)
     return _divide(a * v + b * i, c * v + d * i)
 
 
@@ -172,7 +135,7 @@ def deembed_impedance(abcd_list, z_measured_ohm):
     state back to the output state).
     """
     v, i = _state_from_impedance(z_measured_ohm)
-    n11, n12, n21, n22 = _inverse_entries(*_cascade_entries(abcd_list))
+    n11, n12, n21, n22 = _inverse_entries(*cascade_entries(abcd_list))
     return _divide(n11 * v + n12 * i, n21 * v + n22 * i)
 
 
@@ -198,12 +161,12 @@ def _apply(coefficients, rho):
 
 def _deembedding_map(abcd_list, z_ref_ohm, z0_antenna_ohm):
     z0 = np.asarray(z_ref_ohm if z0_antenna_ohm is None else z0_antenna_ohm)
-    return _mobius(_inverse_entries(*_cascade_entries(abcd_list)), z_ref_ohm, z0)
+    return _mobius(_inverse_entries(*cascade_entries(abcd_list)), z_ref_ohm, z0)
 
 
 def _embedding_map(abcd_list, z_ref_ohm, z0_antenna_ohm):
     z0 = np.asarray(z_ref_ohm if z0_antenna_ohm is None else z0_antenna_ohm)
-    return _mobius(_cascade_entries(abcd_list), z0, z_ref_ohm)
+    return _mobius(cascade_entries(abcd_list), z0, z_ref_ohm)
 
 
 def deembed_rho(abcd_list, rho_measured, z_ref_ohm, z0_antenna_ohm=None):

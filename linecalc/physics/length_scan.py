@@ -18,6 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from linecalc.physics.cascade import walk_to_input
 from linecalc.physics.matching_fast import LEAST_LOSS
 from linecalc.errors import InputError
 
@@ -288,13 +289,6 @@ def _check_inputs(frequency_hz, z_antenna_ohm, network, radio_power_w, r0_ohm, f
     return f, z
 
 
-def _cascade(abcd_list, v, i):
-    """Walk [V, I] through chain matrices from the last toward the first."""
-    for abcd in reversed(abcd_list):
-        v, i = abcd[..., 0, 0] * v + abcd[..., 0, 1] * i, abcd[..., 1, 0] * v + abcd[..., 1, 1] * i
-    return v, i
-
-
 def feeder_waves(z0_ohm, gamma_per_m, length_m, rho_out, abcd_tuner_to_feeder=()):
     """The feeder's input reflection and the state at the tuner's output, per 1 V forward wave.
 
@@ -324,7 +318,7 @@ def feeder_waves(z0_ohm, gamma_per_m, length_m, rho_out, abcd_tuner_to_feeder=()
     4.4 (chain matrices).
     """
     rho_in = rho_out * np.exp(-2 * gamma_per_m * length_m)
-    voltage_v, current_a = _cascade(list(abcd_tuner_to_feeder), 1 + rho_in, (1 - rho_in) / z0_ohm)
+    voltage_v, current_a = walk_to_input(list(abcd_tuner_to_feeder), 1 + rho_in, (1 - rho_in) / z0_ohm)
     return rho_in, voltage_v, current_a
 
 
@@ -426,7 +420,7 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     chunk, chunk_bytes = chunk_plan(length_m.size, f.size, network, memory_budget_bytes)
 
     z0, gamma = cable.constants(f)
-    v_out, i_out = _cascade(list(abcd_feeder_to_antenna), z_antenna, np.ones_like(z_antenna))
+    v_out, i_out = walk_to_input(list(abcd_feeder_to_antenna), z_antenna, np.ones_like(z_antenna))
     rho_out = (v_out - z0 * i_out) / (v_out + z0 * i_out)
     least_loss = LEAST_LOSS[network]
 
