@@ -7,13 +7,12 @@ is done by hand (a Touchstone 1.x ``# Hz S RI R 50`` file is a few lines of text
 """
 from __future__ import annotations
 
-import os
 import re
-import tempfile
 from pathlib import Path
 
 import numpy as np
 from linecalc.errors import InputError
+from linecalc.io import atomic
 
 UNITS_HZ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
 PARAMETERS = ("s", "y", "z")
@@ -239,19 +238,6 @@ def _divide(numerator, denominator):
     return np.where(zero, complex(np.inf, 0.0), numerator / np.where(zero, 1.0, denominator))
 
 
-def _current_umask():
-    mask = os.umask(0)
-    os.umask(mask)
-    return mask
-
-
-def _same_file(a: Path, b: Path) -> bool:
-    try:
-        return a.exists() and b.exists() and os.path.samefile(a, b)
-    except OSError:
-        return False
-
-
 def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, force=False, protected=()):
     """Write an impedance sweep as a Touchstone 1.x one-port file of S data in RI form.
 
@@ -288,10 +274,8 @@ def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, for
 
     Notes
     -----
-    The text goes to a temporary file in the output's folder, is flushed to disk, then renamed
-    over the output (``os.replace``, atomic on one file system): a reader never sees half a
-    file. Without ``force`` the rename is a hard link, which fails if the output has appeared
-    in the meantime. Values are written with 17 significant digits, so they read back exactly.
+    Written by `linecalc.io.atomic.write_atomically`: whole or not at all. Values are written
+    with 17 significant digits, so they read back exactly.
 
     References
     ----------
@@ -315,43 +299,16 @@ def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, for
         raise ValueError(f"an impedance equals -{z_ref_ohm:g} ohm: its reflection coefficient is infinite")
     s = np.where(open_circuit, 1.0 + 0j, (finite - z_ref_ohm) / (finite + z_ref_ohm))
 
-    for other in protected:
-        other = Path(other)
-        if _same_file(path, other) or path.resolve() == other.resolve():
-            raise TouchstoneWriteError(path, f"is an input of this run ({other}); it is never overwritten")
-    if path.exists() and not force:
-        raise TouchstoneWriteError(path, "exists; use --force to replace it")
-
     header = [f"! {line}".rstrip() for line in comment.encode("ascii", "replace").decode("ascii").splitlines()]
     header.append(f"# Hz S RI R {z_ref_ohm:.17g}")
     rows = [f"{fi:.17g} {si.real:.17g} {si.imag:.17g}" for fi, si in zip(f, s)]
     text = "\n".join(header + rows) + "\n"
 
-    folder = path.parent if str(path.parent) else Path(".")
     try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+        return atomic.write_atomically(path, lambda out: out.write(text), force=force, protected=protected)
+    except atomic.OutputIsInputError as exc:
+        raise TouchstoneWriteError(path, f"is an input of this run ({exc.other}); it is never overwritten") from None
+    except atomic.OutputExistsError:
+        raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
     except OSError as exc:
         raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None
-    try:
-        with os.fdopen(handle, "w", encoding="ascii", newline="\n") as out:
-            out.write(text)
-            out.flush()
-            os.fsync(out.fileno())
-        os.chmod(temporary, 0o666 & ~_current_umask())
-        if force:
-            os.replace(temporary, path)
-        else:
-            try:
-                os.link(temporary, path)  # fails if the output appeared meanwhile
-            except FileExistsError:
-                raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
-            except OSError:  # a file system without hard links: check, then rename
-                if path.exists():
-                    raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
-                os.replace(temporary, path)
-    except OSError as exc:
-        raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None
-    finally:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-    return path

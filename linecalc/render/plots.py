@@ -10,13 +10,12 @@ refused (`PlotExistsError`) unless ``force`` is true.
 from __future__ import annotations
 
 import errno
-import os
-import secrets
 from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
 from linecalc.errors import InputError
+from linecalc.io import atomic
 from linecalc.studies import figure_data
 
 FIGURE_SIZE_IN = (10.0, 6.0)
@@ -75,19 +74,14 @@ def _figure(rows=1, columns=1, **subplot_kw):
 
 
 def _save(figure, path, force):
-    """Write to a temporary file beside ``path``, then rename it over ``path`` (atomic on POSIX)."""
+    """Write the figure whole or not at all (`linecalc.io.atomic.write_atomically`)."""
     path = _target(path, force)
-    temporary = path.with_name(f".{path.name}.{secrets.token_hex(4)}.tmp")
+    metadata = {"Date": None} if path.suffix.lower() == ".svg" else {"Software": None}
     try:
-        with open(temporary, "xb") as stream:
-            metadata = {"Date": None} if path.suffix.lower() == ".svg" else {"Software": None}
-            figure.savefig(stream, format=path.suffix[1:].lower(), dpi=DPI, metadata=metadata)
-        if path.exists() and not force:  # appeared while drawing
-            raise PlotExistsError(errno.EEXIST, "the plot file exists (force to overwrite it)", str(path))
-        os.replace(temporary, path)
-    finally:
-        if temporary.exists():
-            temporary.unlink()
+        atomic.write_atomically(path, lambda out: figure.savefig(out, format=path.suffix[1:].lower(), dpi=DPI,
+                                                                  metadata=metadata), binary=True, force=force)
+    except atomic.OutputExistsError:  # appeared while drawing
+        raise PlotExistsError(errno.EEXIST, "the plot file exists (force to overwrite it)", str(path)) from None
     return figure
 
 
