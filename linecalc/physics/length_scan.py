@@ -20,6 +20,7 @@ import numpy as np
 
 from linecalc.physics.cascade import walk_to_input
 from linecalc.physics.matching_fast import LEAST_LOSS
+from linecalc.physics.swr_curve import sweep_frequencies_hz
 from linecalc.errors import InputError
 
 # Largest scan (lengths x frequencies) run without an explicit override: about 5 s for a T
@@ -172,7 +173,7 @@ def band_scan_frequencies(bands, points_per_band=3):
     """
     if points_per_band < 2:
         raise AdvisorInputError(f"points_per_band must be 2 or more (the edges), got {points_per_band}")
-    frequency_hz = np.concatenate([np.linspace(b.low_hz, b.high_hz, points_per_band) for b in bands])
+    frequency_hz = np.concatenate([sweep_frequencies_hz(b.low_hz, b.high_hz, points_per_band) for b in bands])
     return frequency_hz, np.repeat(np.arange(len(bands)), points_per_band)
 
 

@@ -12,9 +12,8 @@ import numpy as np
 
 from linecalc.studies.json_values import finite_or_none, json_list
 from linecalc.studies.budget import BudgetResult, solve_budget
-from linecalc.studies.station import BudgetError, Station
-from linecalc.physics.loads import outside_table
-from linecalc.physics.swr_curve import SweepStatistics, sweep_frequencies_hz, sweep_statistics
+from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
+from linecalc.physics.swr_curve import SweepStatistics, sweep_statistics
 
 
 @dataclass(frozen=True)
@@ -52,12 +51,10 @@ class BandSweep:
 def sweep_points(station: Station, points: int):
     """Frequencies of every band row edge to edge at ``points`` points; an explicit frequency row
     stays a single point. Returns (labels, frequency_hz, slices per row)."""
-    labels, frequencies, slices, start = [], [], [], 0
-    for label, centre, edges in zip(station.labels, station.frequency_hz, station.band_edges_hz or
-                                    (None,) * len(station.labels)):
-        f = sweep_frequencies_hz(*edges, points) if edges is not None else np.array([centre])
+    labels, slices, start = [], [], 0
+    frequencies = row_frequencies(station, points)
+    for label, f in zip(station.labels, frequencies):
         labels += [f"{label} {x / 1e6:.6g} MHz" for x in f]
-        frequencies.append(f)
         slices.append(slice(start, start + f.size))
         start += f.size
     return tuple(labels), np.concatenate(frequencies), slices
@@ -69,8 +66,7 @@ def solve_band_sweeps(station: Station, points: int) -> tuple[BudgetResult, list
         raise BudgetError("a sweep needs at least 2 points per band", "bands")
     labels, frequency_hz, slices = sweep_points(station, points)
     table_hz = station.antenna.frequency_hz
-    outside = [label for label, edges in zip(station.labels, station.band_edges_hz or ())
-               if edges is not None and np.any(outside_table(table_hz, edges))]
+    outside = rows_outside_antenna_data(station, [frequency_hz[part] for part in slices])
     if outside:
         raise BudgetError(f"the band edges of {', '.join(outside)} lie outside the antenna data, which spans "
                           f"{table_hz[0] / 1e6:g} to {table_hz[-1] / 1e6:g} MHz: a sweep never extrapolates it",

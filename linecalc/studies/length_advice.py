@@ -10,10 +10,10 @@ import numpy as np
 
 from linecalc.physics.exposure import CAUTIONS
 from linecalc.studies.json_values import finite_or_none
-from linecalc.physics.length_scan import LengthAdvice, advise_length, find_windows
-from linecalc.studies.station import BudgetError, Station
+from linecalc.physics.length_scan import AdvisorInputError, LengthAdvice, advise_length, find_windows
+from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
 from linecalc.studies.compare import CompareError, main_line_index
-from linecalc.physics.loads import ImpedanceTable, outside_table
+from linecalc.physics.loads import ImpedanceTable
 
 # Points per band row for the scan: both edges and the centre.
 POINTS_PER_BAND = 3
@@ -54,13 +54,10 @@ class AdviceResult:
 def scan_frequencies(station: Station, points_per_band=POINTS_PER_BAND):
     """Frequencies standing for every row: a band's edges and points between; an explicit
     frequency as itself. Returns (frequency_hz, row index of each)."""
-    frequencies, rows = [], []
-    for k, (centre, edges) in enumerate(zip(station.frequency_hz, station.band_edges_hz or
-                                            (None,) * len(station.labels))):
-        f = np.linspace(*edges, points_per_band) if edges is not None else np.array([centre])
-        frequencies.append(f)
-        rows.append(np.full(f.size, k))
-    return np.concatenate(frequencies), np.concatenate(rows)
+    if points_per_band < 2:
+        raise AdvisorInputError(f"points_per_band must be 2 or more (the edges), got {points_per_band}")
+    frequencies = row_frequencies(station, points_per_band)
+    return np.concatenate(frequencies), np.concatenate([np.full(f.size, k) for k, f in enumerate(frequencies)])
 
 
 def within_loss(advice: LengthAdvice, max_loss_db) -> LengthAdvice:
@@ -98,9 +95,8 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
         raise BudgetError(f"the length advisor needs exactly one tuner on the radio side of {feed[index].label}",
                           "feed")
     f, rows = scan_frequencies(station, points_per_band)
-    outside = outside_table(station.antenna.frequency_hz, f)
-    if outside.any():
-        names = sorted({station.labels[k] for k in rows[outside]})
+    names = sorted(rows_outside_antenna_data(station, [f[rows == k] for k in range(len(station.labels))]))
+    if names:
         raise BudgetError(f"the band edges of {', '.join(names)} lie outside the antenna table: the advisor "
                           "checks edges and centre and never extrapolates", "antenna")
     tuner = feed[tuners[0]]

@@ -11,7 +11,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from linecalc.errors import InputError, StationError
-from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable
+from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
+from linecalc.physics.swr_curve import sweep_frequencies_hz
 
 
 @dataclass(frozen=True)
@@ -76,3 +77,17 @@ def errors_located(station: Station):
         yield
     except BudgetError as exc:
         raise located(station, exc) from None
+
+
+def row_frequencies(station: Station, points: int) -> list[np.ndarray]:
+    """The frequencies that stand for each row [Hz]: a band's ``points`` frequencies from edge
+    to edge (both included, at least 2), an explicit frequency as itself."""
+    return [sweep_frequencies_hz(*edges, points) if edges is not None else np.array([centre])
+            for centre, edges in zip(station.frequency_hz, station.band_edges_hz or (None,) * len(station.labels))]
+
+
+def rows_outside_antenna_data(station: Station, frequencies: list[np.ndarray]) -> list[str]:
+    """Labels of the rows whose ``frequencies`` reach outside the antenna's data (its table or
+    sweep, which is never extrapolated)."""
+    table_hz = station.antenna.frequency_hz
+    return [label for label, f in zip(station.labels, frequencies) if np.any(outside_table(table_hz, f))]
