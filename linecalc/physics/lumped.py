@@ -1,5 +1,5 @@
 """Lumped parts: lossy inductors and capacitors, and the chain matrices of a part in series or in
-shunt. Shared by the station elements (elements.py) and the matching networks (tuner.py).
+shunt. Shared by the station elements (`linecalc.elements`) and the matching networks (matching.py).
 
 Every part uses the series-resistance loss model Z = R + jX, R = |X| / Q.
 """

@@ -1,6 +1,6 @@
 """Matching networks (an antenna tuner): lumped parts, L and T networks, a radio's built-in tuner.
 
-Conventions follow elements.py: chain matrices have shape (..., nf, 2, 2) and map the output
+Conventions follow `linecalc.elements`: chain matrices have shape (..., nf, 2, 2) and map the output
 (antenna side) state [V, I] to the input (radio side); phasors are RMS, net power is Re(V I*).
 A network is a ladder of parts listed from input to output; a part sits in series (impedance
 Z) or in shunt (admittance Y). Every part uses the series-resistance loss model Z = R + jX,

@@ -1,4 +1,5 @@
-"""Least tuner loss over many loads at once: whether an L or T network matches, and at what loss.
+"""The fast twin of `linecalc.physics.matching`: least tuner loss over many loads at once,
+whether an L or T network matches, and at what loss.
 
 The designs of `linecalc.physics.matching` choose and describe a setting per load; scanning a feeder's
 length needs only two answers per load, for a million loads: can the tuner match, and what is

@@ -1,5 +1,5 @@
 """The length advisor run on a station: which lengths of its feeder let its tuner match on every
-band. Orchestration only; the scan itself is `advisor.advise_length`.
+band. Orchestration only; the scan itself is `linecalc.physics.length_scan.advise_length`.
 """
 from __future__ import annotations
 
