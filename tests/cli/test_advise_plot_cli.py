@@ -4,8 +4,6 @@ from __future__ import annotations
 import dataclasses
 import json
 import struct
-import subprocess
-import sys
 from pathlib import Path
 
 import numpy as np
@@ -15,23 +13,33 @@ from linecalc.studies.budget import solve_budget
 from linecalc.elements import Line
 from linecalc.io.station_file import load_station
 
-ROOT = Path(__file__).resolve().parent.parent
-LINECALC = Path(sys.executable).parent / "linecalc"
-DOUBLET = ROOT / "stations" / "orchard-doublet.yaml"
+
+@pytest.fixture
+def run(linecalc_command):
+    """The installed command, with room for a long scan or a plot (matplotlib's first import)."""
+    return lambda *args: linecalc_command(*args, timeout=300)
 
 
-def run(*args):
-    return subprocess.run([str(LINECALC), *map(str, args)], capture_output=True, text=True, timeout=300)
+@pytest.fixture
+def doublet(data_path):
+    """A doublet on window line behind a balanced tuner, with a compare: key."""
+    return data_path("orchard-doublet.yaml")
 
 
-def test_advise_best_window_matches_when_re_solved_one_length_at_a_time():
-    result = run("advise", DOUBLET, "--from", "5 m", "--to", "25 m", "--step", "5 cm", "--max-loss", "0.35",
+@pytest.fixture
+def dipole(data_path):
+    """A dipole on coax, with no tuner and no compare: key."""
+    return data_path("hilltop-dipole.yaml")
+
+
+def test_advise_best_window_matches_when_re_solved_one_length_at_a_time(run, doublet):
+    result = run("advise", doublet, "--from", "5 m", "--to", "25 m", "--step", "5 cm", "--max-loss", "0.35",
                  "--format", "json")
     assert result.returncode == 0, result.stderr
     doc = json.loads(result.stdout)
-    assert doc["windows"], "the demo doublet has windows under 0.35 dB"
+    assert doc["windows"], "the test doublet has windows under 0.35 dB"
     best = doc["windows"][0]
-    station = load_station(DOUBLET)
+    station = load_station(doublet)
     index = next(k for k, e in enumerate(station.feed) if e.kind == "line")
     for length in np.linspace(best["start_m"], best["end_m"], 3):
         feed = list(station.feed)
@@ -51,15 +59,15 @@ def test_advise_best_window_matches_when_re_solved_one_length_at_a_time():
     (["--step", "0.1 mm"], "--step:"),
     (["--step", "1 W"], "--step:"),
 ])
-def test_advise_bad_options_exit_2_naming_the_option(args, words):
-    result = run("advise", DOUBLET, *args)
+def test_advise_bad_options_exit_2_naming_the_option(args, words, run, doublet):
+    result = run("advise", doublet, *args)
     assert result.returncode == 2, result.stderr
     assert result.stderr.startswith(f"linecalc advise: {words}") and "Traceback" not in result.stderr
     assert result.stdout == ""
 
 
-def test_advise_without_a_tuner_names_the_feed():
-    result = run("advise", ROOT / "stations" / "hilltop-dipole.yaml")
+def test_advise_without_a_tuner_names_the_feed(run, dipole):
+    result = run("advise", dipole)
     assert result.returncode == 2
     assert "tuner" in result.stderr and "(at feed)" in result.stderr
 
@@ -72,26 +80,26 @@ def _png_size(path):
 
 
 @pytest.mark.parametrize("kind", ["swr", "budget", "smith", "voltage", "compare"])
-def test_plot_writes_a_png_of_sensible_size(kind, tmp_path):
+def test_plot_writes_a_png_of_sensible_size(kind, tmp_path, run, doublet):
     out = tmp_path / f"{kind}.png"
-    result = run("plot", DOUBLET, kind, out, "--sweep", "11")
+    result = run("plot", doublet, kind, out, "--sweep", "11")
     assert result.returncode == 0, result.stderr
     width, height = _png_size(out)
     assert (width, height) == (1000, 600)
     assert 10_000 < out.stat().st_size < 2_000_000
-    again = run("plot", DOUBLET, kind, out)
+    again = run("plot", doublet, kind, out)
     assert again.returncode == 2 and "--force" in again.stderr
-    assert run("plot", DOUBLET, kind, out, "--force").returncode == 0
+    assert run("plot", doublet, kind, out, "--force").returncode == 0
     assert [p.name for p in tmp_path.iterdir()] == [out.name]  # no temporary file left
 
 
-def test_plot_svg_and_bad_suffix(tmp_path):
-    assert run("plot", DOUBLET, "budget", tmp_path / "b.svg").returncode == 0
+def test_plot_svg_and_bad_suffix(tmp_path, run, doublet):
+    assert run("plot", doublet, "budget", tmp_path / "b.svg").returncode == 0
     assert (tmp_path / "b.svg").read_text().lstrip().startswith("<?xml")
-    bad = run("plot", DOUBLET, "budget", tmp_path / "b.gif")
+    bad = run("plot", doublet, "budget", tmp_path / "b.gif")
     assert bad.returncode == 2 and "Traceback" not in bad.stderr
 
 
-def test_plot_compare_without_alternatives_is_bad_input(tmp_path):
-    result = run("plot", ROOT / "stations" / "hilltop-dipole.yaml", "compare", tmp_path / "c.png")
+def test_plot_compare_without_alternatives_is_bad_input(tmp_path, run, dipole):
+    result = run("plot", dipole, "compare", tmp_path / "c.png")
     assert result.returncode == 2 and "compare" in result.stderr

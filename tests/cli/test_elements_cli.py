@@ -5,17 +5,8 @@ from __future__ import annotations
 import json
 import math
 import re
-import subprocess
-import sys
-from pathlib import Path
 
 import pytest
-
-LINECALC = Path(sys.executable).parent / "linecalc"
-
-
-def run(*args):
-    return subprocess.run([str(LINECALC), *map(str, args)], capture_output=True, text=True, timeout=120)
 
 
 # Every element kind in one path. Line numbers matter below: 7 connector, 8 choke, 9 series,
@@ -82,12 +73,11 @@ def check_one_line_error(result, station, line, path, words):
 
 
 @pytest.mark.parametrize("case", BAD, ids=list(BAD))
-def test_bad_element_setting_exits_2_with_file_line_and_path(case, tmp_path):
+def test_bad_element_setting_exits_2_with_file_line_and_path(case, write_file, linecalc_command):
     old, new, line, path, words = BAD[case]
     assert GOOD.count(old) == 1, old
-    station = tmp_path / "station.yaml"
-    station.write_text(GOOD.replace(old, new))
-    check_one_line_error(run("budget", station), station, line, path, words)
+    station = write_file("station.yaml", GOOD.replace(old, new))
+    check_one_line_error(linecalc_command("budget", station), station, line, path, words)
 
 
 @pytest.mark.parametrize("written, ratio", [("4:1", 4.0), ("9:1", 9.0), ("1:4", 0.25), ("49:1", 49.0)])
@@ -101,12 +91,11 @@ def test_unquoted_ratio_is_read_as_written(written, ratio):
     assert balun.impedance_ratio == ratio
 
 
-def test_tuner_on_a_pure_reactance_is_bad_input_not_an_internal_error(tmp_path):
+def test_tuner_on_a_pure_reactance_is_bad_input_not_an_internal_error(write_file, linecalc_command):
     # No network delivers power into a pure reactance (R = 0): bad input (exit 2), not a crash.
-    station = tmp_path / "station.yaml"
-    station.write_text("name: reactance\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
-                       "antenna:\n  impedance: {7.1 MHz: 0+j50}\nfeed:\n  - tuner: {network: L}\n")
-    result = run("budget", station)
+    station = write_file("station.yaml", "name: reactance\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
+                                         "antenna:\n  impedance: {7.1 MHz: 0+j50}\nfeed:\n  - tuner: {network: L}\n")
+    result = linecalc_command("budget", station)
     assert result.returncode == 2, result.stderr
     assert result.stdout == "" and "Traceback" not in result.stderr and "\n" not in result.stderr.strip()
     assert result.stderr.startswith(f"{station}:")
@@ -116,10 +105,10 @@ def test_tuner_on_a_pure_reactance_is_bad_input_not_an_internal_error(tmp_path):
 # --- JSON contract -----------------------------------------------------------------------------
 
 @pytest.fixture(scope="module")
-def budget_json(tmp_path_factory):
+def budget_json(tmp_path_factory, linecalc_command):
     station = tmp_path_factory.mktemp("json") / "station.yaml"
     station.write_text(GOOD)
-    result = run("budget", station, "--format", "json")
+    result = linecalc_command("budget", station, "--format", "json")
     assert result.returncode == 0, result.stderr
     assert "Traceback" not in result.stderr
     return json.loads(result.stdout)
@@ -177,15 +166,14 @@ def test_choke_below_threshold_warns_in_json(budget_json):
     assert "7.1 MHz" not in choke[0] and "14.2 MHz" not in choke[0]
 
 
-def test_balanced_line_from_the_radio_is_a_warning_not_an_error(tmp_path):
-    station = tmp_path / "station.yaml"
-    station.write_text("name: ladder\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
-                       "antenna:\n  impedance: {7.1 MHz: 300+j100}\n"
-                       "feed:\n  - line: {label: ladder, cable: window-line-450, length: 15 m}\n")
-    result = run("budget", station)
+def test_balanced_line_from_the_radio_is_a_warning_not_an_error(write_file, linecalc_command):
+    station = write_file("station.yaml", "name: ladder\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
+                                         "antenna:\n  impedance: {7.1 MHz: 300+j100}\n"
+                                         "feed:\n  - line: {label: ladder, cable: window-line-450, length: 15 m}\n")
+    result = linecalc_command("budget", station)
     assert result.returncode == 0, result.stderr
     assert re.search(r"^warning: balanced line ladder ", result.stderr, re.M), result.stderr
     with_balun = station.read_text().replace("feed:\n", 'feed:\n  - balun: {ratio: "4:1"}\n')
     station.write_text(with_balun)
-    result = run("budget", station)
+    result = linecalc_command("budget", station)
     assert result.returncode == 0 and "balanced line" not in result.stderr, result.stderr

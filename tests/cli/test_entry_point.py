@@ -1,32 +1,23 @@
-"""The CLI end to end through its installed entry point, on the demo stations and on bad input."""
+"""The command end to end, mostly through its installed entry point: every test station in every
+output format, the cable listing, bad input (exit status 2, one line `FILE:LINE: ... (at key.path)`)
+and the JSON of a shorted antenna."""
 from __future__ import annotations
 
 import csv
 import io
 import json
+import math
 import re
-import subprocess
-import sys
-from pathlib import Path
 
 import pytest
 
-ROOT = Path(__file__).resolve().parent.parent
-STATIONS = sorted((ROOT / "stations").glob("*.yaml"))
-LINECALC = Path(sys.executable).parent / "linecalc"
 
-
-def run(*args, cwd=None):
-    return subprocess.run([str(LINECALC), *map(str, args)], capture_output=True, text=True, cwd=cwd, timeout=120)
-
-
-@pytest.mark.parametrize("station", STATIONS, ids=lambda p: p.name)
-def test_demo_station_table_json_csv(station):
-    table = run("budget", station)
+def test_station_table_json_csv(data_station, linecalc_command):
+    table = linecalc_command("budget", data_station)
     assert table.returncode == 0, table.stderr
     assert "SWR antenna" in table.stdout and "Traceback" not in table.stderr
 
-    as_json = run("budget", station, "--format", "json")
+    as_json = linecalc_command("budget", data_station, "--format", "json")
     assert as_json.returncode == 0, as_json.stderr
     doc = json.loads(as_json.stdout)
     assert set(doc) >= {"station", "reference_impedance_ohm", "radio_power_w", "rows", "warnings"}
@@ -34,24 +25,25 @@ def test_demo_station_table_json_csv(station):
         assert set(row) >= {"label", "frequency_hz", "swr_antenna", "swr_radio", "z_antenna_ohm", "z_radio_ohm",
                             "matched_loss_db", "mismatch_loss_db", "total_loss_db", "power_radio_w",
                             "power_antenna_w", "elements"}
-        # DESIGN.md: total = 10 log10(P_radio / P_antenna) and mismatch = total - matched
+        # docs/json.md (the budget rows) and the README (How linecalc computes, Losses):
+        # total = 10 log10(P_radio / P_antenna) and mismatch = total - matched
         assert row["total_loss_db"] == pytest.approx(
-            10 * __import__("math").log10(row["power_radio_w"] / row["power_antenna_w"]), abs=1e-9)
+            10 * math.log10(row["power_radio_w"] / row["power_antenna_w"]), abs=1e-9)
         assert row["mismatch_loss_db"] == pytest.approx(row["total_loss_db"] - row["matched_loss_db"], abs=1e-9)
         heat = sum(e["dissipated_w"] for e in row["elements"])
         assert row["power_radio_w"] == pytest.approx(row["power_antenna_w"] + heat, rel=1e-9)
         for element in row["elements"]:
             assert set(element) >= {"kind", "label", "loss_db", "dissipated_w"}
 
-    as_csv = run("budget", station, "--format", "csv")
+    as_csv = linecalc_command("budget", data_station, "--format", "csv")
     assert as_csv.returncode == 0, as_csv.stderr
     rows = list(csv.DictReader(io.StringIO(as_csv.stdout)))
     assert len(rows) == len(doc["rows"])
     assert float(rows[0]["power_antenna_w"]) == pytest.approx(doc["rows"][0]["power_antenna_w"], rel=1e-9)
 
 
-def test_cables_listing_names_every_library_cable():
-    result = run("cables")
+def test_cables_listing_names_every_library_cable(linecalc_command):
+    result = linecalc_command("cables")
     assert result.returncode == 0, result.stderr
     for cable_id in ("rg-58", "rg-8x", "rg-213", "foam-10mm", "hardline-half-inch", "rg-6", "rg-11",
                      "twin-lead-300", "window-line-450", "open-wire-600"):
@@ -59,8 +51,8 @@ def test_cables_listing_names_every_library_cable():
     assert "per 100 m" in result.stdout and "per 100 ft" in result.stdout
 
 
-def test_usage_error_exits_2():
-    result = run("budget")
+def test_usage_error_exits_2(linecalc_command):
+    result = linecalc_command("budget")
     assert result.returncode == 2 and "Traceback" not in result.stderr
 
 
@@ -98,12 +90,11 @@ BAD = {
 
 
 @pytest.mark.parametrize("case", BAD, ids=list(BAD))
-def test_bad_input_exits_2_with_file_line_and_path(case, tmp_path):
+def test_bad_input_exits_2_with_file_line_and_path(case, write_file, linecalc_command):
     old, new, line, path, words = BAD[case]
     assert old in GOOD
-    station = tmp_path / "station.yaml"
-    station.write_text(GOOD.replace(old, new, 1))
-    result = run("budget", station)
+    station = write_file("station.yaml", GOOD.replace(old, new, 1))
+    result = linecalc_command("budget", station)
     assert result.returncode == 2, (result.stdout, result.stderr)
     assert result.stdout == ""
     assert "Traceback" not in result.stderr
@@ -118,12 +109,22 @@ def test_bad_input_exits_2_with_file_line_and_path(case, tmp_path):
     assert words in message
 
 
-def test_good_station_runs(tmp_path):
-    station = tmp_path / "station.yaml"
-    station.write_text(GOOD)
-    assert run("budget", station).returncode == 0
+def test_good_station_runs(write_file, linecalc_command):
+    assert linecalc_command("budget", write_file("station.yaml", GOOD)).returncode == 0
 
 
-def test_missing_file_exits_2(tmp_path):
-    result = run("budget", tmp_path / "nope.yaml")
+def test_missing_file_exits_2(tmp_path, linecalc_command):
+    result = linecalc_command("budget", tmp_path / "nope.yaml")
     assert result.returncode == 2 and "nope.yaml" in result.stderr and "Traceback" not in result.stderr
+
+
+def test_json_of_a_shorted_antenna_has_nulls_not_infinity(write_file, cli):
+    # JSON has no infinity (RFC 8259, section 6): an infinite loss is written null
+    station = write_file("short.yaml", "name: short\nfrequencies: [7 MHz]\nradio: {power: 100 W}\n"
+                                       "antenna: {impedance: {7 MHz: 0}}\nfeed:\n  - line: {cable: rg-213, length: 10 m}\n")
+    code, out, err = cli("budget", station, "--format", "json")
+    assert code == 0, err
+    row = json.loads(out)["rows"][0]
+    assert row["total_loss_db"] is None and row["power_antenna_w"] == 0.0 and row["swr_antenna"] is None
+    code, out, err = cli("compare", station, "--cable", "rg-58", "--format", "json")
+    assert code == 0, err

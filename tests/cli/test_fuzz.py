@@ -16,8 +16,6 @@ import contextlib
 import copy
 import io
 import re
-import subprocess
-import sys
 import tempfile
 import traceback
 import warnings
@@ -43,7 +41,6 @@ from linecalc.io.station_file import parse_station_text
 
 FILE = "fuzz.yaml"
 LIBRARY_IDS = sorted(load_library())
-LINECALC = Path(sys.executable).parent / "linecalc"
 
 # Default profile: a bounded, derandomised run (the same examples every time, for CI); each test
 # sets its number of examples. Long profile (``fuzz_long``): many more, from random seeds.
@@ -763,10 +760,10 @@ REAL_RUNS = {
 
 
 @pytest.mark.parametrize("case", REAL_RUNS, ids=list(REAL_RUNS))
-def test_installed_entry_point_exits_2_with_one_line(case, tmp_path):
+def test_installed_entry_point_exits_2_with_one_line(case, tmp_path, linecalc_command):
     path = tmp_path / "station.yaml"
     path.write_bytes(REAL_RUNS[case])
-    result = subprocess.run([str(LINECALC), "budget", str(path)], capture_output=True, text=True, timeout=120)
+    result = linecalc_command("budget", path)
     assert result.returncode == 2, (result.returncode, result.stderr[-2000:])
     assert result.stdout == "" and "Traceback" not in result.stderr
     assert re.match(rf"^{re.escape(str(path))}:\d+: \S[^\n]*\n$", result.stderr), result.stderr[-2000:]

@@ -13,32 +13,16 @@ import json
 import math
 import re
 import shutil
-import subprocess
-import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
 
-from cli_support import run, write
 from linecalc.io.cable_library import load_library
 from linecalc.io.station_file import load_station
 
 skrf = pytest.importorskip("skrf")
 
-ROOT = Path(__file__).resolve().parent.parent
-STATIONS = ROOT / "stations"
-LINECALC = Path(sys.executable).parent / "linecalc"
 Z_REF_OHM = 50.0
-
-
-def one_error_line(err, file):
-    """The single stderr line of a bad-input exit: FILE:LINE: message; returns (line, message)."""
-    message = err.strip()
-    assert "\n" not in message and "Traceback" not in message, err
-    match = re.match(rf"^{re.escape(str(file))}:(\d+): (.*)$", message)
-    assert match, message
-    return int(match.group(1)), match.group(2)
 
 
 def rho_magnitude(swr):
@@ -69,7 +53,7 @@ def impedance_yaml(frequency_hz, z_ohm):
 
 def line_network(cable, length_m, frequency_hz):
     """A line as a scikit-rf network, ports referred to 50 ohm, from the cable's Z0 and gamma
-    (the line model itself is checked against scikit-rf in test_solver and test_cables)."""
+    (the line model itself is checked against scikit-rf in tests/physics/test_cascade.py and test_cables.py)."""
     z0, gamma = cable.constants(frequency_hz)
     frequency = skrf.Frequency.from_f(frequency_hz, unit="hz")
     media = skrf.media.DefinedGammaZ0(frequency, z0_port=Z_REF_OHM, z0=z0, gamma=gamma)
@@ -98,9 +82,9 @@ feed:
 """
 
 
-def test_shack_reading_brackets_the_arrl_closed_form(tmp_path, capsys):
-    station = write(tmp_path, "reading.yaml", READING_STATION)
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+def test_shack_reading_brackets_the_arrl_closed_form(cli, write_file):
+    station = write_file("reading.yaml", READING_STATION)
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     row = json.loads(out)["rows"][0]
     least, most = row["measured"]["swr_antenna_least"], row["measured"]["swr_antenna_most"]
@@ -120,12 +104,12 @@ def test_shack_reading_brackets_the_arrl_closed_form(tmp_path, capsys):
     assert row["swr_radio"] == pytest.approx(1.8, rel=1e-9)
 
 
-def test_shack_reading_range_against_scikit_rf_brute_force(tmp_path, capsys):
+def test_shack_reading_range_against_scikit_rf_brute_force(cli, write_file):
     # Independent method: every phase of the reading at the radio de-embedded with scikit-rf's
     # inverse network, then |rho| at the antenna against the line's own (complex) Z0, as the
-    # budget states swr_antenna (DESIGN.md). 3600 phases sample the smooth extremes to ~1e-6.
-    station_path = write(tmp_path, "reading.yaml", READING_STATION)
-    code, out, err = run(capsys, "budget", station_path, "--format", "json")
+    # budget states swr_antenna (docs/json.md, rows[].measured). 3600 phases sample the smooth extremes to ~1e-6.
+    station_path = write_file("reading.yaml", READING_STATION)
+    code, out, err = cli("budget", station_path, "--format", "json")
     assert code == 0, err
     measured = json.loads(out)["rows"][0]["measured"]
     f = np.array([14.2e6])
@@ -144,12 +128,12 @@ def test_shack_reading_range_against_scikit_rf_brute_force(tmp_path, capsys):
     assert measured["swr_antenna_most"] == pytest.approx(swr_of(rho.max()), rel=1e-5)
 
 
-def test_reading_through_a_very_lossy_path_is_refused_plainly(tmp_path, capsys):
+def test_reading_through_a_very_lossy_path_is_refused_plainly(cli, write_file, one_error_line, library):
     # 200 m of RG-58 class coax at 146 MHz: by the closed form above a reading of 1.8 would need
     # |rho| > 1 at the antenna, so any antenna (an open or a short too) can read 1.8.
-    ml_db = 200 * float(load_library()["rg-58"].matched_loss_db_per_m(np.array([146e6]))[0])
+    ml_db = 200 * float(library["rg-58"].matched_loss_db_per_m(np.array([146e6]))[0])
     assert rho_magnitude(1.8) * 10 ** (ml_db / 10) > 1
-    station = write(tmp_path, "lossy.yaml", """\
+    station = write_file("lossy.yaml", """\
 name: Long thin coax on 2 m
 frequencies: [146 MHz]
 radio: {power: 100 W}
@@ -160,14 +144,14 @@ feed:
   - line: {label: long thin coax, cable: rg-58, length: 200 m}
 """)
     for fmt in ("table", "json"):
-        code, out, err = run(capsys, "budget", station, "--format", fmt)
+        code, out, err = cli("budget", station, "--format", fmt)
         assert code == 2 and out == ""
         line, message = one_error_line(err, station)
         assert line == 4 and "cannot pin the antenna down" in message
         assert not re.search(r"\d\.\d", message)  # no SWR figure is offered
 
 
-def test_reading_at_a_named_meter_uses_only_the_elements_after_it(tmp_path, capsys):
+def test_reading_at_a_named_meter_uses_only_the_elements_after_it(cli, write_file, library):
     common = """\
 frequencies: [14.2 MHz]
 radio: {power: 100 W}
@@ -178,26 +162,26 @@ feed:
 %s"""
     shack_line = "  - line: {label: shack run, cable: rg-58, length: 30 m}\n"
     attic = "  - meter: {label: attic meter}\n  - line: {label: attic run, cable: rg-213, length: 12 m}\n"
-    at_meter = write(tmp_path, "meter.yaml",
+    at_meter = write_file("meter.yaml",
                      "name: at the attic meter\n" + common % ("attic meter", shack_line + attic))
-    alone = write(tmp_path, "alone.yaml", "name: attic run alone\n" + common % ("radio", attic))
-    at_radio = write(tmp_path, "radio.yaml", "name: whole path\n" + common % ("radio", shack_line + attic))
+    alone = write_file("alone.yaml", "name: attic run alone\n" + common % ("radio", attic))
+    at_radio = write_file("radio.yaml", "name: whole path\n" + common % ("radio", shack_line + attic))
     measured = {}
     for path in (at_meter, alone, at_radio):
-        code, out, err = run(capsys, "budget", path, "--format", "json")
+        code, out, err = cli("budget", path, "--format", "json")
         assert code == 0, err
         measured[path.stem] = json.loads(out)["rows"][0]["measured"]
     for key in ("swr_antenna_least", "swr_antenna_most", "sensitivity"):
         assert measured["meter"][key] == pytest.approx(measured["alone"][key], rel=1e-12)
     assert measured["radio"]["swr_antenna_most"] > measured["meter"]["swr_antenna_most"] + 0.1
     # ARRL Antenna Book, transmission-line chapter: only the attic run's matched loss counts
-    ml_db = 12 * float(load_library()["rg-213"].matched_loss_db_per_m(np.array([14.2e6]))[0])
+    ml_db = 12 * float(library["rg-213"].matched_loss_db_per_m(np.array([14.2e6]))[0])
     closed_form = swr_of(rho_magnitude(1.8) * 10 ** (ml_db / 10))
     assert measured["meter"]["swr_antenna_least"] <= closed_form <= measured["meter"]["swr_antenna_most"]
 
 
-def test_measured_at_an_unknown_meter_names_file_line_and_key(tmp_path, capsys):
-    station = write(tmp_path, "unknown.yaml", """\
+def test_measured_at_an_unknown_meter_names_file_line_and_key(cli, write_file, one_error_line):
+    station = write_file("unknown.yaml", """\
 name: Unknown meter
 frequencies: [14.2 MHz]
 radio: {power: 100 W}
@@ -208,7 +192,7 @@ feed:
   - meter: {label: shack meter}
   - line: {label: coax, cable: rg-58, length: 20 m}
 """)
-    code, out, err = run(capsys, "budget", station)
+    code, out, err = cli("budget", station)
     assert code == 2 and out == ""
     line, message = one_error_line(err, station)
     assert line == 6 and message.endswith("(at antenna.measured_at)") and "attic meter" in message
@@ -227,16 +211,16 @@ def dipole_like_ohm(frequency_hz):
     return 65 + 35 * x + 1j * (420 * x - 15 * x**2)
 
 
-def test_touchstone_at_the_feedpoint_gives_the_budget_of_the_same_impedance_table(tmp_path, capsys):
+def test_touchstone_at_the_feedpoint_gives_the_budget_of_the_same_impedance_table(tmp_path, cli, write_file):
     s1p, z_read = write_s1p(tmp_path, "feedpoint", SWEEP_HZ, dipole_like_ohm(SWEEP_HZ))
     head = "region: 1\nradio: {power: 100 W}\nbands: [40m]\nfrequencies: [7.05 MHz, 7.1234 MHz]\n"
     feed = "feed:\n  - connector: {loss: 0.1 dB}\n  - line: {label: coax, cable: rg-8x, length: 27 m}\n"
-    from_file = write(tmp_path, "file.yaml", f"name: same\n{head}antenna:\n  touchstone: {s1p.name}\n{feed}")
-    from_table = write(tmp_path, "table.yaml",
+    from_file = write_file("file.yaml", f"name: same\n{head}antenna:\n  touchstone: {s1p.name}\n{feed}")
+    from_table = write_file("table.yaml",
                        f"name: same\n{head}antenna:\n  impedance: {impedance_yaml(SWEEP_HZ, z_read)}\n{feed}")
     documents = []
     for path in (from_file, from_table):
-        code, out, err = run(capsys, "budget", path, "--format", "json")
+        code, out, err = cli("budget", path, "--format", "json")
         assert code == 0, err
         documents.append(json.loads(out))
     a, b = documents
@@ -249,9 +233,9 @@ def test_touchstone_at_the_feedpoint_gives_the_budget_of_the_same_impedance_tabl
         assert "measured" not in row_a  # taken at the feedpoint: nothing is moved
 
 
-def shack_path_station(folder, s1p_name):
+def shack_path_station(write_file, s1p_name):
     """Coax, a connector and more coax, measured at the radio end."""
-    return write(folder, "shack.yaml", f"""\
+    return write_file("shack.yaml", f"""\
 name: Measured in the shack
 frequencies: [7.1 MHz]
 radio: {{power: 100 W}}
@@ -273,14 +257,14 @@ def skrf_shack_path(frequency_hz):
             ** line_network(library["rg-8x"], 7.0, frequency_hz))
 
 
-def test_feedpoint_deembedding_equals_scikit_rf_inverse_cascade(tmp_path, capsys):
+def test_feedpoint_deembedding_equals_scikit_rf_inverse_cascade(tmp_path, cli, write_file, library):
     chain = skrf_shack_path(SWEEP_HZ)
     antenna = skrf.Network.from_z(dipole_like_ohm(SWEEP_HZ).reshape(-1, 1, 1), frequency=chain.frequency,
                                   z0=Z_REF_OHM)
     measured = chain ** antenna  # what an analyser in the shack reads (scikit-rf's cascade)
     measured.write_touchstone(filename="shack", dir=str(tmp_path))
-    station = shack_path_station(tmp_path, "shack.s1p")
-    code, out, err = run(capsys, "feedpoint", station, "--format", "json")
+    station = shack_path_station(write_file, "shack.s1p")
+    code, out, err = cli("feedpoint", station, "--format", "json")
     assert code == 0, err
     doc = json.loads(out)
     z = np.array([complex(*p["z_antenna_ohm"]) for p in doc["points"]])
@@ -290,14 +274,14 @@ def test_feedpoint_deembedding_equals_scikit_rf_inverse_cascade(tmp_path, capsys
     np.testing.assert_allclose(z, recovered.z[:, 0, 0], rtol=1e-9)
     np.testing.assert_allclose(z, dipole_like_ohm(SWEEP_HZ), rtol=1e-9)  # and the round trip
     assert not any(p["active"] for p in doc["points"])
-    # the feedpoint SWR against the feeding line's own Z0 (DESIGN.md: swr_antenna)
-    z0, _ = load_library()["rg-8x"].constants(SWEEP_HZ)
+    # the feedpoint SWR against the feeding line's own Z0 (docs/json.md, points[].swr_antenna)
+    z0, _ = library["rg-8x"].constants(SWEEP_HZ)
     rho = np.abs((z - z0) / (z + z0))
     np.testing.assert_allclose([p["swr_antenna"] for p in doc["points"]], swr_of(rho), rtol=1e-9)
 
 
 def demo_dipole_ohm(frequency_hz):
-    """The documented model of stations/make_demo_sweep.py, written out again from its docstring:
+    """The documented model of the demo folder's make_demo_sweep.py, written out again from its docstring:
     Z = R0 + k (f - f0) + j (2 pi f L - 1/(2 pi f C)), f0 = 7.1 MHz, R0 = 68 ohm, k = 40 ohm/MHz,
     reactance slope 380 ohm/MHz at f0, so L = slope/(4 pi) and C = 1/((2 pi f0)^2 L)."""
     f0, slope = 7.1e6, 380.0 / 1e6
@@ -307,8 +291,8 @@ def demo_dipole_ohm(frequency_hz):
     return 68.0 + 40e-6 * (frequency_hz - f0) + 1j * (omega * inductance - 1 / (omega * capacitance))
 
 
-def test_demo_station_recovers_its_documented_model(capsys):
-    code, out, err = run(capsys, "feedpoint", STATIONS / "shack-sweep-dipole.yaml", "--format", "json")
+def test_demo_station_recovers_its_documented_model(cli, data_path):
+    code, out, err = cli("feedpoint", data_path("shack-sweep-dipole.yaml"), "--format", "json")
     assert code == 0, err
     doc = json.loads(out)
     f = np.array([p["frequency_hz"] for p in doc["points"]])
@@ -324,17 +308,17 @@ def test_demo_station_recovers_its_documented_model(capsys):
 
 
 @pytest.fixture()
-def demo_copy(tmp_path):
-    """The demo station and its sweep in a folder of their own."""
+def demo_copy(tmp_path, data_path):
+    """The test copy of the demo's shack sweep and its station in a folder of their own."""
     for name in ("shack-sweep-dipole.yaml", "demo-shack-sweep.s1p"):
-        shutil.copy(STATIONS / name, tmp_path / name)
+        shutil.copy(data_path(name), tmp_path / name)
     return tmp_path / "shack-sweep-dipole.yaml"
 
 
-def test_feedpoint_table_json_and_csv_agree(demo_copy, capsys):
+def test_feedpoint_table_json_and_csv_agree(demo_copy, cli):
     outputs = {}
     for fmt in ("table", "json", "csv"):
-        code, outputs[fmt], err = run(capsys, "feedpoint", demo_copy, "--format", fmt)
+        code, outputs[fmt], err = cli("feedpoint", demo_copy, "--format", fmt)
         assert code == 0, err
     points = json.loads(outputs["json"])["points"]
     rows = list(csv.DictReader(io.StringIO(outputs["csv"])))
@@ -351,11 +335,11 @@ def test_feedpoint_table_json_and_csv_agree(demo_copy, capsys):
                                                                                        abs=0.05)
 
 
-def test_feedpoint_output_reads_back_in_scikit_rf_equal_to_the_json(demo_copy, capsys):
+def test_feedpoint_output_reads_back_in_scikit_rf_equal_to_the_json(demo_copy, cli):
     folder = demo_copy.parent
     before = set(folder.iterdir())
     output = folder / "feedpoint.s1p"
-    code, out, err = run(capsys, "feedpoint", demo_copy, "--format", "json", "--output", output)
+    code, out, err = cli("feedpoint", demo_copy, "--format", "json", "--output", output)
     assert code == 0, err
     points = json.loads(out)["points"]
     network = skrf.Network(str(output))
@@ -364,16 +348,16 @@ def test_feedpoint_output_reads_back_in_scikit_rf_equal_to_the_json(demo_copy, c
     assert set(folder.iterdir()) == before | {output}  # atomic: no temporary file left behind
 
 
-def test_feedpoint_output_refuses_an_existing_file_without_force(demo_copy, capsys):
+def test_feedpoint_output_refuses_an_existing_file_without_force(demo_copy, cli):
     folder = demo_copy.parent
     output = folder / "feedpoint.s1p"
     output.write_text("keep me\n")
     before = set(folder.iterdir())
-    code, out, err = run(capsys, "feedpoint", demo_copy, "--output", output)
+    code, out, err = cli("feedpoint", demo_copy, "--output", output)
     assert code == 2 and "--force" in err and "Traceback" not in err
     assert output.read_text() == "keep me\n"
     assert set(folder.iterdir()) == before
-    code, out, err = run(capsys, "feedpoint", demo_copy, "--output", output, "--force")
+    code, out, err = cli("feedpoint", demo_copy, "--output", output, "--force")
     assert code == 0, err
     assert skrf.Network(str(output)).f.size == 101
     assert set(folder.iterdir()) == before
@@ -381,29 +365,28 @@ def test_feedpoint_output_refuses_an_existing_file_without_force(demo_copy, caps
 
 @pytest.mark.parametrize("target", ["shack-sweep-dipole.yaml", "demo-shack-sweep.s1p"])
 @pytest.mark.parametrize("force", [False, True])
-def test_feedpoint_never_overwrites_an_input(demo_copy, capsys, target, force):
+def test_feedpoint_never_overwrites_an_input(demo_copy, target, force, cli):
     folder = demo_copy.parent
     protected = folder / target
     original = protected.read_bytes()
     before = set(folder.iterdir())
-    code, out, err = run(capsys, "feedpoint", demo_copy, "--output", protected, *(["--force"] if force else []))
+    code, out, err = cli("feedpoint", demo_copy, "--output", protected, *(["--force"] if force else []))
     assert code == 2 and "Traceback" not in err and target in err
     assert protected.read_bytes() == original
     assert set(folder.iterdir()) == before
 
 
-def test_feedpoint_output_through_the_entry_point(demo_copy):
+def test_feedpoint_output_through_the_entry_point(demo_copy, linecalc_command):
     # the installed command, once: status, nothing on stderr, a file scikit-rf reads
     output = demo_copy.parent / "out.s1p"
-    result = subprocess.run([str(LINECALC), "feedpoint", str(demo_copy), "--format", "csv", "--output", str(output)],
-                            capture_output=True, text=True, timeout=120)
+    result = linecalc_command("feedpoint", demo_copy, "--format", "csv", "--output", output)
     assert result.returncode == 0, result.stderr
     assert result.stderr == "" and skrf.Network(str(output)).f.size == 101
     assert len(result.stdout.splitlines()) == 102
 
 
-def test_feedpoint_needs_a_measured_sweep(tmp_path, capsys):
-    code, out, err = run(capsys, "feedpoint", STATIONS / "hilltop-dipole.yaml")
+def test_feedpoint_needs_a_measured_sweep(cli, data_path):
+    code, out, err = cli("feedpoint", data_path("hilltop-dipole.yaml"))
     assert code == 2 and out == "" and "measured_at" in err and "Traceback" not in err
 
 
@@ -425,9 +408,9 @@ RLC_C_F = 1 / ((2 * np.pi * RLC_RESONANCE_HZ) ** 2 * RLC_L_H)
 RLC_TABLE_HZ = np.linspace(13.9e6, 14.45e6, 111)
 
 
-def rlc_station(folder, feed="  - line: {label: coax, cable: rg-58, length: 30 m}\n", extra_rows=""):
+def rlc_station(write_file, feed="  - line: {label: coax, cable: rg-58, length: 30 m}\n", extra_rows=""):
     table = impedance_yaml(RLC_TABLE_HZ, rlc_ohm(RLC_TABLE_HZ, 50.0, RLC_L_H, RLC_C_F))
-    return write(folder, "rlc.yaml", f"""\
+    return write_file("rlc.yaml", f"""\
 name: Series RLC test antenna
 region: 1
 radio: {{power: 100 W}}
@@ -438,12 +421,12 @@ feed:
 {feed}""")
 
 
-def test_sweep_rows_hold_n_points_edge_to_edge_and_agree_with_the_plain_budget(tmp_path, capsys):
-    station = rlc_station(tmp_path, extra_rows="frequencies: [14.2 MHz]\n")
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+def test_sweep_rows_hold_n_points_edge_to_edge_and_agree_with_the_plain_budget(cli, write_file):
+    station = rlc_station(write_file, extra_rows="frequencies: [14.2 MHz]\n")
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     plain = json.loads(out)["rows"]
-    code, out, err = run(capsys, "budget", station, "--format", "json", "--sweep", "21")
+    code, out, err = cli("budget", station, "--format", "json", "--sweep", "21")
     assert code == 0, err
     rows = json.loads(out)["rows"]
     band = rows[0]["sweep"]
@@ -464,9 +447,9 @@ def test_sweep_rows_hold_n_points_edge_to_edge_and_agree_with_the_plain_budget(t
         assert a["swr_radio"] == pytest.approx(b["swr_radio"], rel=1e-12)
 
 
-def test_series_rlc_minimum_swr_within_one_step_of_resonance(tmp_path, capsys):
-    station = rlc_station(tmp_path)
-    code, out, err = run(capsys, "budget", station, "--format", "json", "--sweep", "101")
+def test_series_rlc_minimum_swr_within_one_step_of_resonance(cli, write_file):
+    station = rlc_station(write_file)
+    code, out, err = cli("budget", station, "--format", "json", "--sweep", "101")
     assert code == 0, err
     sweep = json.loads(out)["rows"][0]["sweep"]
     f = np.array(sweep["frequency_hz"])
@@ -499,11 +482,11 @@ def bandwidth_hz(frequency_hz, swr, limit):
 
 
 @pytest.mark.parametrize("length_m", [5.0, 30.0, 80.0])
-def test_bandwidth_at_the_radio_is_never_narrower_than_at_the_antenna(tmp_path, capsys, length_m):
+def test_bandwidth_at_the_radio_is_never_narrower_than_at_the_antenna(length_m, cli, write_file):
     # ARRL Antenna Book, transmission-line chapter: line loss makes an antenna look broader from
     # the transmitter (|rho| falls by 10^(-ML/10) on the way down).
-    station = rlc_station(tmp_path, feed=f"  - line: {{label: coax, cable: rg-58, length: {length_m} m}}\n")
-    code, out, err = run(capsys, "budget", station, "--format", "json", "--sweep", "101")
+    station = rlc_station(write_file, feed=f"  - line: {{label: coax, cable: rg-58, length: {length_m} m}}\n")
+    code, out, err = cli("budget", station, "--format", "json", "--sweep", "101")
     assert code == 0, err
     sweep = json.loads(out)["rows"][0]["sweep"]
     f = np.array(sweep["frequency_hz"])
@@ -520,10 +503,10 @@ def test_bandwidth_at_the_radio_is_never_narrower_than_at_the_antenna(tmp_path, 
         assert bandwidth_hz(f, sweep["swr_radio"], 2.0) > 1.3 * bandwidth_hz(f, sweep["swr_antenna"], 2.0)
 
 
-def test_radio_s1p_holds_the_impedance_the_radio_sees(tmp_path, capsys):
-    station = rlc_station(tmp_path, extra_rows="frequencies: [14.2 MHz]\n")
+def test_radio_s1p_holds_the_impedance_the_radio_sees(tmp_path, cli, write_file, library):
+    station = rlc_station(write_file, extra_rows="frequencies: [14.2 MHz]\n")
     output = tmp_path / "radio.s1p"
-    code, out, err = run(capsys, "budget", station, "--format", "json", "--radio-s1p", output)
+    code, out, err = cli("budget", station, "--format", "json", "--radio-s1p", output)
     assert code == 0, err
     rows = json.loads(out)["rows"]
     network = skrf.Network(str(output))
@@ -531,33 +514,33 @@ def test_radio_s1p_holds_the_impedance_the_radio_sees(tmp_path, capsys):
     np.testing.assert_allclose(network.z[:, 0, 0], [complex(*r["z_radio_ohm"]) for r in rows], rtol=1e-9)
     # and independently: the antenna table through scikit-rf's line network
     z_antenna = rlc_ohm(network.f, 50.0, RLC_L_H, RLC_C_F)
-    line = line_network(load_library()["rg-58"], 30.0, network.f)
+    line = line_network(library["rg-58"], 30.0, network.f)
     antenna = skrf.Network.from_z(z_antenna.reshape(-1, 1, 1), frequency=line.frequency, z0=Z_REF_OHM)
     # the table is interpolated between its 5 kHz points (PCHIP): close, not to rounding
     np.testing.assert_allclose(network.z[:, 0, 0], (line ** antenna).z[:, 0, 0], rtol=1e-4)
 
     # with --sweep: every sweep point and the explicit row, in increasing order, each once
-    code, out, err = run(capsys, "budget", station, "--sweep", "11", "--radio-s1p", output)
+    code, out, err = cli("budget", station, "--sweep", "11", "--radio-s1p", output)
     assert code == 2 and "--force" in err
-    code, out, err = run(capsys, "budget", station, "--sweep", "11", "--radio-s1p", output, "--force")
+    code, out, err = cli("budget", station, "--sweep", "11", "--radio-s1p", output, "--force")
     assert code == 0, err
     network = skrf.Network(str(output))
     expected_hz = np.union1d(np.linspace(14.0e6, 14.35e6, 11), [14.2e6])
     np.testing.assert_allclose(network.f, expected_hz, rtol=1e-12)
-    line = line_network(load_library()["rg-58"], 30.0, network.f)
+    line = line_network(library["rg-58"], 30.0, network.f)
     antenna = skrf.Network.from_z(rlc_ohm(network.f, 50.0, RLC_L_H, RLC_C_F).reshape(-1, 1, 1),
                                   frequency=line.frequency, z0=Z_REF_OHM)
     np.testing.assert_allclose(network.z[:, 0, 0], (line ** antenna).z[:, 0, 0], rtol=1e-4)
     assert sorted(p.name for p in tmp_path.iterdir()) == ["radio.s1p", "rlc.yaml"]
 
 
-def test_radio_s1p_refuses_a_reading_and_the_station_itself(tmp_path, capsys):
-    station = write(tmp_path, "reading.yaml", READING_STATION)
-    code, out, err = run(capsys, "budget", station, "--radio-s1p", tmp_path / "radio.s1p")
+def test_radio_s1p_refuses_a_reading_and_the_station_itself(tmp_path, cli, write_file):
+    station = write_file("reading.yaml", READING_STATION)
+    code, out, err = cli("budget", station, "--radio-s1p", tmp_path / "radio.s1p")
     assert code == 2 and "phase" in err and not (tmp_path / "radio.s1p").exists()
-    rlc = rlc_station(tmp_path)
+    rlc = rlc_station(write_file)
     original = rlc.read_bytes()
-    code, out, err = run(capsys, "budget", rlc, "--radio-s1p", rlc, "--force")
+    code, out, err = cli("budget", rlc, "--radio-s1p", rlc, "--force")
     assert code == 2 and rlc.read_bytes() == original
 
 
@@ -582,11 +565,11 @@ BAD_FILES = {
 
 
 @pytest.mark.parametrize("case", BAD_FILES, ids=list(BAD_FILES))
-def test_bad_touchstone_file_exits_2_naming_file_and_line(tmp_path, capsys, case):
+def test_bad_touchstone_file_exits_2_naming_file_and_line(tmp_path, case, cli, write_file, one_error_line):
     name, text, line, words = BAD_FILES[case]
     if text is not None:
-        write(tmp_path, name, text)
-    station = write(tmp_path, "station.yaml", f"""\
+        write_file(name, text)
+    station = write_file("station.yaml", f"""\
 name: Bad sweep
 frequencies: [7.1 MHz]
 radio: {{power: 100 W}}
@@ -597,7 +580,7 @@ feed:
   - line: {{label: coax, cable: rg-213, length: 20 m}}
 """)
     for command in ("budget", "feedpoint"):
-        code, out, err = run(capsys, command, station)
+        code, out, err = cli(command, station)
         assert code == 2 and out == ""
         if line is None:  # the station's own line that names the file
             at, message = one_error_line(err, station)
@@ -608,17 +591,17 @@ feed:
         assert words in message, message
 
 
-def test_bad_touchstone_through_the_entry_point_has_no_traceback(tmp_path):
-    write(tmp_path, "sweep.s1p", "# MHz S RI R 50\n6.9 0.1 0.2\n7.1 zero 0.1\n")
-    station = write(tmp_path, "station.yaml", "name: x\nfrequencies: [7.0 MHz]\nradio: {power: 100 W}\n"
+def test_bad_touchstone_through_the_entry_point_has_no_traceback(tmp_path, write_file, linecalc_command):
+    write_file("sweep.s1p", "# MHz S RI R 50\n6.9 0.1 0.2\n7.1 zero 0.1\n")
+    station = write_file("station.yaml", "name: x\nfrequencies: [7.0 MHz]\nradio: {power: 100 W}\n"
                                               "antenna: {touchstone: sweep.s1p}\nfeed: []\n")
-    result = subprocess.run([str(LINECALC), "budget", str(station)], capture_output=True, text=True, timeout=120)
+    result = linecalc_command("budget", station)
     assert result.returncode == 2 and result.stdout == ""
     assert result.stderr.strip() == f"{tmp_path / 'sweep.s1p'}:3: not a number: 'zero'"
 
 
-def test_band_outside_the_measured_span_exits_2(tmp_path, capsys):
-    write(tmp_path, "sweep.s1p", GOOD_S1P)  # 6.9 to 7.3 MHz
+def test_band_outside_the_measured_span_exits_2(cli, write_file, one_error_line):
+    write_file("sweep.s1p", GOOD_S1P)  # 6.9 to 7.3 MHz
     template = """\
 name: Band outside
 region: 1
@@ -629,29 +612,29 @@ antenna:
 feed:
   - line: {label: coax, cable: rg-213, length: 20 m}
 """
-    station = write(tmp_path, "twenty.yaml", template % "20m")
-    code, out, err = run(capsys, "budget", station)
+    station = write_file("twenty.yaml", template % "20m")
+    code, out, err = cli("budget", station)
     assert code == 2 and out == ""
     line, message = one_error_line(err, station)
     assert line == 6 and "20m" in message and "never extrapolated" in message
     # 40 m in region 1 is 7.0 to 7.2 MHz: inside; but 6.9 to 7.05 MHz cannot sweep it edge to edge
-    write(tmp_path, "sweep.s1p", "# MHz S RI R 50\n6.9 0.1 0.2\n7.0 0.0 0.1\n7.15 -0.1 0.2\n")
-    station = write(tmp_path, "forty.yaml", (template % "40m"))
-    code, out, err = run(capsys, "budget", station)
+    write_file("sweep.s1p", "# MHz S RI R 50\n6.9 0.1 0.2\n7.0 0.0 0.1\n7.15 -0.1 0.2\n")
+    station = write_file("forty.yaml", (template % "40m"))
+    code, out, err = cli("budget", station)
     assert code == 0, err
-    code, out, err = run(capsys, "budget", station, "--sweep", "11")
+    code, out, err = cli("budget", station, "--sweep", "11")
     assert code == 2 and out == ""
     line, message = one_error_line(err, station)
     assert "40m" in message and "outside" in message
 
 
-def test_active_deembedded_antenna_warns_naming_the_frequencies(tmp_path, capsys):
+def test_active_deembedded_antenna_warns_naming_the_frequencies(cli, write_file, library):
     # Near-opens measured through a few dB of coax cannot be: |rho| at the radio is at most
     # 10^(-ML/10) for any passive antenna (ARRL Antenna Book, transmission-line chapter).
     f_mhz = [13.9, 14.0, 14.1, 14.2, 14.3]
     rho = [0.2, 0.95, 0.2, 0.97, 0.2]  # S11 at the radio, real
-    write(tmp_path, "sweep.s1p", "# MHz S RI R 50\n" + "".join(f"{f} {r} 0\n" for f, r in zip(f_mhz, rho)))
-    station = write(tmp_path, "active.yaml", """\
+    write_file("sweep.s1p", "# MHz S RI R 50\n" + "".join(f"{f} {r} 0\n" for f, r in zip(f_mhz, rho)))
+    station = write_file("active.yaml", """\
 name: Path does not match the measurement
 frequencies: [14.1 MHz]
 radio: {power: 100 W}
@@ -661,26 +644,26 @@ antenna:
 feed:
   - line: {label: coax, cable: rg-58, length: 60 m}
 """)
-    ml_db = 60 * float(load_library()["rg-58"].matched_loss_db_per_m(np.array([14.0e6]))[0])
+    ml_db = 60 * float(library["rg-58"].matched_loss_db_per_m(np.array([14.0e6]))[0])
     assert 0.95 > 10 ** (-ml_db / 10)  # so those two points are impossible for a passive antenna
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     warnings = [w for w in json.loads(out)["warnings"] if "active" in w]
     assert len(warnings) == 1
     assert re.search(r" at 14, 14\.2 MHz", warnings[0]), warnings[0]
     assert any("active" in line and "14.2" in line for line in err.splitlines())
-    code, out, err = run(capsys, "feedpoint", station, "--format", "json")
+    code, out, err = cli("feedpoint", station, "--format", "json")
     assert code == 0 and "active" in err
     assert [p["active"] for p in json.loads(out)["points"]] == [False, True, False, True, False]
 
 
 @pytest.mark.parametrize("measured_at", ["radio", None])
-def test_radio_s1p_never_overwrites_the_sweep_it_read(tmp_path, capsys, measured_at):
+def test_radio_s1p_never_overwrites_the_sweep_it_read(tmp_path, measured_at, cli, write_file):
     # issue 4: never overwrite an input, even with --force; the sweep is an input as much as the
     # station file (measured in the shack, or at the feedpoint)
     s1p, _ = write_s1p(tmp_path, "sweep", SWEEP_HZ, dipole_like_ohm(SWEEP_HZ))
     where = f"  measured_at: {measured_at}\n" if measured_at else ""
-    station = write(tmp_path, "station.yaml", f"""\
+    station = write_file("station.yaml", f"""\
 name: Sweep is an input
 frequencies: [7.1 MHz]
 radio: {{power: 100 W}}
@@ -692,18 +675,18 @@ antenna:
     original = s1p.read_bytes()
     before = set(tmp_path.iterdir())
     for extra in ([], ["--force"], ["--sweep", "5", "--force"]):
-        code, out, err = run(capsys, "budget", station, "--radio-s1p", s1p, *extra)
+        code, out, err = cli("budget", station, "--radio-s1p", s1p, *extra)
         assert code == 2 and s1p.name in err and "Traceback" not in err, err
         assert s1p.read_bytes() == original
     assert set(tmp_path.iterdir()) == before
 
 
-def test_radio_s1p_of_the_demo_equals_the_measurement_it_came_from(tmp_path, capsys, demo_copy):
+def test_radio_s1p_of_the_demo_equals_the_measurement_it_came_from(tmp_path, demo_copy, cli):
     # De-embedding then solving the path again must give back, at the radio, what the analyser
     # read: at the sweep's own points the file's impedance (41 points across 7.0 to 7.2 MHz fall
     # on its 5 kHz grid).
     output = tmp_path / "radio.s1p"
-    code, out, err = run(capsys, "budget", demo_copy, "--sweep", "41", "--radio-s1p", output)
+    code, out, err = cli("budget", demo_copy, "--sweep", "41", "--radio-s1p", output)
     assert code == 0, err
     radio = skrf.Network(str(output))
     measured = skrf.Network(str(demo_copy.parent / "demo-shack-sweep.s1p"))
@@ -713,9 +696,9 @@ def test_radio_s1p_of_the_demo_equals_the_measurement_it_came_from(tmp_path, cap
     np.testing.assert_allclose(radio.z[keep, 0, 0], measured.z[on_grid, 0, 0], rtol=1e-9)
 
 
-def test_measurement_through_a_tuner_is_refused(tmp_path, capsys):
-    write(tmp_path, "sweep.s1p", GOOD_S1P)
-    station = write(tmp_path, "tuner.yaml", """\
+def test_measurement_through_a_tuner_is_refused(cli, write_file, one_error_line):
+    write_file("sweep.s1p", GOOD_S1P)
+    station = write_file("tuner.yaml", """\
 name: Tuner between the analyser and the antenna
 frequencies: [7.1 MHz]
 radio: {power: 100 W}
@@ -727,22 +710,22 @@ feed:
   - line: {label: coax, cable: rg-213, length: 20 m}
 """)
     for command in ("budget", "feedpoint"):
-        code, out, err = run(capsys, command, station)
+        code, out, err = cli(command, station)
         assert code == 2 and out == ""
         line, message = one_error_line(err, station)
         assert line == 4 and "tuner" in message
 
 
-def test_lossy_path_flags_the_recovered_antenna_as_uncertain(tmp_path, capsys):
+def test_lossy_path_flags_the_recovered_antenna_as_uncertain(tmp_path, cli, write_file, library):
     # A 50-ohm antenna measured through 100 m of RG-58 class coax at 14.2 MHz. ARRL Antenna Book,
     # transmission-line chapter: an error in |rho| at the meter grows by 10^(ML/10) on its way to
     # the antenna; for a matched line that is the whole of the multiplier.
     f = np.linspace(14.0e6, 14.4e6, 9)
-    cable = load_library()["rg-58"]
+    cable = library["rg-58"]
     line = line_network(cable, 100.0, f)
     antenna = skrf.Network.from_z(np.full((f.size, 1, 1), 50.0 + 0j), frequency=line.frequency, z0=Z_REF_OHM)
     (line ** antenna).write_touchstone(filename="far", dir=str(tmp_path))
-    station = write(tmp_path, "far.yaml", """\
+    station = write_file("far.yaml", """\
 name: Far antenna
 frequencies: [14.2 MHz]
 radio: {power: 100 W}
@@ -752,7 +735,7 @@ antenna:
 feed:
   - line: {label: long coax, cable: rg-58, length: 100 m}
 """)
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     doc = json.loads(out)
     ml_db = 100 * float(cable.matched_loss_db_per_m(np.array([14.2e6]))[0])

@@ -10,33 +10,21 @@ from __future__ import annotations
 import json
 import math
 import re
-import subprocess
-import sys
 from pathlib import Path
 
 import numpy as np
 import pytest
 
-from cli_support import run, write
 
-ROOT = Path(__file__).resolve().parent.parent
-LINECALC = Path(sys.executable).parent / "linecalc"
+ROOT = Path(__file__).resolve().parent.parent.parent
 SPEED_OF_LIGHT_M_PER_S = 299_792_458.0  # exact, SI definition of the metre
 ETA0_OHM = 376.730313  # free-space impedance, CODATA 2018 (mu0 c)
 
 
-def budget_json(capsys, station):
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+def budget_json(cli, station):
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     return json.loads(out)
-
-
-def one_error_line(err, file):
-    message = err.strip()
-    assert "\n" not in message and "Traceback" not in message, err
-    match = re.match(rf"^{re.escape(str(file))}:(\d+): (.*)$", message)
-    assert match, message
-    return int(match.group(1)), match.group(2)
 
 
 # --------------------------------------------------------------------------------------------
@@ -55,17 +43,16 @@ CAUTION_TOPICS = {
 
 
 @pytest.mark.parametrize("topic", CAUTION_TOPICS, ids=list(CAUTION_TOPICS))
-def test_safety_command_and_readme_carry_the_cautions(capsys, topic):
-    code, out, err = run(capsys, "safety", ROOT / "stations" / "shack-sweep-dipole.yaml")
+def test_safety_command_and_readme_carry_the_cautions(topic, cli, data_path):
+    code, out, err = cli("safety", data_path("shack-sweep-dipole.yaml"))
     assert code == 0, err
     assert re.search(CAUTION_TOPICS[topic], out, re.DOTALL)
     readme = " ".join((ROOT / "README.md").read_text().split())  # lines joined: phrases may wrap
     assert re.search(CAUTION_TOPICS[topic], readme, re.DOTALL)
 
 
-def test_safety_json_carries_the_cautions_and_the_entry_point_works():
-    result = subprocess.run([str(LINECALC), "safety", str(ROOT / "stations" / "shack-reading.yaml"), "--format",
-                             "json"], capture_output=True, text=True, timeout=120)
+def test_safety_json_carries_the_cautions_and_the_entry_point_works(linecalc_command, data_path):
+    result = linecalc_command("safety", data_path("shack-reading.yaml"), "--format", "json")
     assert result.returncode == 0, result.stderr
     doc = json.loads(result.stdout)
     cautions = " ".join(doc["cautions"])
@@ -92,10 +79,10 @@ LOW_LOSS_LINES = {
 
 
 @pytest.mark.parametrize("case", LOW_LOSS_LINES, ids=list(LOW_LOSS_LINES))
-def test_line_voltage_maximum_against_the_standing_wave_closed_form(tmp_path, capsys, case):
+def test_line_voltage_maximum_against_the_standing_wave_closed_form(case, cli, write_file):
     cable, z0_ohm, velocity_factor, load_ohm = LOW_LOSS_LINES[case]
     length_m, frequency_hz, power_w = 10.0, 14.2e6, 100.0
-    station = write(tmp_path, "line.yaml", f"""\
+    station = write_file("line.yaml", f"""\
 name: Low-loss line
 frequencies: [14.2 MHz]
 radio: {{power: {power_w:g} W}}
@@ -104,7 +91,7 @@ antenna:
 feed:
   - line: {{label: low-loss line, length: {length_m:g} m, cable: {cable}}}
 """)
-    doc = budget_json(capsys, station)
+    doc = budget_json(cli, station)
     line = doc["rows"][0]["elements"][0]
     # Pozar, Microwave Engineering, 4th ed., sections 2.3 and 2.7: on a lossless line the net
     # power is |V+|^2 (1 - |rho|^2) / Z0 and the standing-wave maximum is |V+| (1 + |rho|).
@@ -142,9 +129,9 @@ feed:
 """
 
 
-def exposure_station(folder, name="exposure.yaml", power="100 W", mode="ssb", fraction=0.5, gain="2.15 dBi",
+def exposure_station(write_file, name="exposure.yaml", power="100 W", mode="ssb", fraction=0.5, gain="2.15 dBi",
                      cable="rg-213", length="15 m"):
-    return write(folder, name, EXPOSURE_STATION.format(power=power, mode=mode, fraction=fraction, gain=gain,
+    return write_file(name, EXPOSURE_STATION.format(power=power, mode=mode, fraction=fraction, gain=gain,
                                                        cable=cable, length=length))
 
 
@@ -157,8 +144,8 @@ def fcc_mpe_mw_per_cm2(frequency_mhz, environment):
     return 900 / frequency_mhz**2 if frequency_mhz <= 30 else 1.0 if frequency_mhz <= 300 else frequency_mhz / 300
 
 
-def test_exposure_rows_worked_by_hand_from_oet_65(tmp_path, capsys):
-    doc = budget_json(capsys, exposure_station(tmp_path))
+def test_exposure_rows_worked_by_hand_from_oet_65(cli, write_file):
+    doc = budget_json(cli, exposure_station(write_file))
     # FCC OET Bulletin 65 Supplement B (Edition 97-01): conversational SSB, duty factor 0.2 (from memory)
     assert doc["duty_factor"] == 0.2 and doc["transmit_fraction"] == 0.5 and doc["antenna_gain_dbi"] == 2.15
     for row in doc["rows"]:
@@ -181,11 +168,11 @@ def test_exposure_rows_worked_by_hand_from_oet_65(tmp_path, capsys):
                                                          rel=1e-6)
 
 
-def test_one_distance_written_out(tmp_path, capsys):
+def test_one_distance_written_out(cli, write_file):
     # One case in full. 20 m, 14.2 MHz: uncontrolled MPE 180 / 14.2^2 = 0.89268 mW/cm^2 =
     # 8.9268 W/m^2 (47 CFR 1.1310 Table 1). No feedline loss, 400 W carrier, 0 dBi, always on:
     # EIRP 400 W. R = sqrt(0.64 x 400 / (pi x 8.9268)) = sqrt(9.1283) = 3.0213 m (OET 65, section 2).
-    station = write(tmp_path, "hand.yaml", """\
+    station = write_file("hand.yaml", """\
 name: One distance by hand
 frequencies: [14.2 MHz]
 radio: {power: 400 W}
@@ -194,21 +181,21 @@ antenna:
   gain: 0 dBi
 feed: []
 """)
-    row = budget_json(capsys, station)["rows"][0]
+    row = budget_json(cli, station)["rows"][0]
     assert row["power_antenna_w"] == pytest.approx(400.0, rel=1e-12)
     assert row["exposure"]["fcc_uncontrolled_m"] == pytest.approx(3.0213, abs=5e-4)
 
 
-def test_distance_grows_as_the_square_root_of_power(tmp_path, capsys):
-    low = budget_json(capsys, exposure_station(tmp_path, "low.yaml", power="100 W"))
-    high = budget_json(capsys, exposure_station(tmp_path, "high.yaml", power="400 W"))
+def test_distance_grows_as_the_square_root_of_power(cli, write_file):
+    low = budget_json(cli, exposure_station(write_file, "low.yaml", power="100 W"))
+    high = budget_json(cli, exposure_station(write_file, "high.yaml", power="400 W"))
     for a, b in zip(low["rows"], high["rows"]):
         for key in ("fcc_uncontrolled_m", "fcc_controlled_m", "icnirp_general_public_m"):
             assert b["exposure"][key] / a["exposure"][key] == pytest.approx(2.0, rel=1e-9)
 
 
-def test_distance_falls_when_the_feedline_loss_rises(tmp_path, capsys):
-    rows = [budget_json(capsys, exposure_station(tmp_path, f"{cable}-{length}.yaml", cable=cable,
+def test_distance_falls_when_the_feedline_loss_rises(cli, write_file):
+    rows = [budget_json(cli, exposure_station(write_file, f"{cable}-{length}.yaml", cable=cable,
                                                  length=length))["rows"]
             for cable, length in (("rg-213", "5 m"), ("rg-213", "30 m"), ("rg-58", "30 m"), ("rg-58", "90 m"))]
     for i in range(3):  # each band
@@ -221,8 +208,8 @@ def test_distance_falls_when_the_feedline_loss_rises(tmp_path, capsys):
                 pytest.approx(math.sqrt(r[i]["power_antenna_w"] / rows[0][i]["power_antenna_w"]), rel=1e-9)
 
 
-def test_numeric_duty_factor_is_used_as_given(tmp_path, capsys):
-    doc = budget_json(capsys, exposure_station(tmp_path, mode="0.35", fraction=1))
+def test_numeric_duty_factor_is_used_as_given(cli, write_file):
+    doc = budget_json(cli, exposure_station(write_file, mode="0.35", fraction=1))
     assert doc["duty_factor"] == 0.35
     for row in doc["rows"]:
         assert row["exposure"]["power_average_w"] == pytest.approx(0.35 * row["power_antenna_w"], rel=1e-12)
@@ -248,19 +235,19 @@ BAD_LINES = {"mode": 5, "fraction": 6, "gain": 9}
 
 @pytest.mark.parametrize("case", BAD_SETTINGS, ids=list(BAD_SETTINGS))
 @pytest.mark.parametrize("command", ["budget", "safety"])
-def test_bad_radio_and_antenna_settings_exit_2_with_file_line_and_key(tmp_path, capsys, case, command):
+def test_bad_radio_and_antenna_settings_exit_2_with_file_line_and_key(case, command, cli, write_file, one_error_line):
     setting, value, key, words = BAD_SETTINGS[case]
-    station = exposure_station(tmp_path, **{setting: value})
-    code, out, err = run(capsys, command, station)
+    station = exposure_station(write_file, **{setting: value})
+    code, out, err = cli(command, station)
     assert code == 2 and out == ""
     line, message = one_error_line(err, station)
     assert line == BAD_LINES[setting], message
     assert message.endswith(f"(at {key})") and words in message, message
 
 
-def test_implausible_gain_is_a_warning_not_an_error(tmp_path, capsys):
-    station = exposure_station(tmp_path, gain="45 dBi")
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+def test_implausible_gain_is_a_warning_not_an_error(cli, write_file):
+    station = exposure_station(write_file, gain="45 dBi")
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     doc = json.loads(out)
     assert any("45 dBi" in w and "plausible" in w for w in doc["warnings"])
@@ -288,9 +275,9 @@ feed:
 """
 
 
-def test_tuner_capacitor_below_its_peak_voltage_warns_naming_band_and_part(tmp_path, capsys):
-    station = write(tmp_path, "tuner.yaml", TUNER_STATION.format(rating="5000 V"))
-    row = budget_json(capsys, station)["rows"][0]
+def test_tuner_capacitor_below_its_peak_voltage_warns_naming_band_and_part(cli, write_file):
+    station = write_file("tuner.yaml", TUNER_STATION.format(rating="5000 V"))
+    row = budget_json(cli, station)["rows"][0]
     tuner = row["elements"][0]
     # Ohm's law on the matched input capacitor: all 100 W flow into 50 ohm through it, so its RMS
     # current is sqrt(P/R) and its peak voltage sqrt(2) I |Z_C|, Z_C = (1/Q - j)/(omega C) with
@@ -305,8 +292,8 @@ def test_tuner_capacitor_below_its_peak_voltage_warns_naming_band_and_part(tmp_p
     peaks = {k.removesuffix("_voltage_peak_v"): v for k, v in tuner.items() if k.endswith("capacitor_voltage_peak_v")}
     worst = max(peaks, key=peaks.get)
     for rating, warned in ((0.98 * peaks[worst], True), (1.02 * peaks[worst], False)):
-        write(tmp_path, "tuner.yaml", TUNER_STATION.format(rating=f"{rating:.3f} V"))
-        code, out, err = run(capsys, "safety", station)
+        write_file("tuner.yaml", TUNER_STATION.format(rating=f"{rating:.3f} V"))
+        code, out, err = cli("safety", station)
         assert code == 0, err
         warnings = [line for line in err.splitlines() if "shack tuner" in line]
         if warned:
@@ -332,14 +319,14 @@ feed:
 """
 
 
-def test_cable_rating_below_the_line_maximum_warns_naming_the_band(tmp_path, capsys):
+def test_cable_rating_below_the_line_maximum_warns_naming_the_band(cli, write_file):
     # 1500 W into a matched 50-ohm line: V = sqrt(P Z0) = 274 V RMS (Pozar, section 2.3). On 40 m
     # the 600-ohm load (SWR 12) puts the voltage maximum at the load, shorter than a half wave
     # away: there V = sqrt(P_load R_load), several hundred volts. A rating of 500 V sits between.
     matched_v = math.sqrt(1500 * 50)
     rating = 500.0
-    station = write(tmp_path, "cable.yaml", CABLE_STATION.format(rating=f"{rating:.0f} V"))
-    code, out, err = run(capsys, "budget", station, "--format", "json")
+    station = write_file("cable.yaml", CABLE_STATION.format(rating=f"{rating:.0f} V"))
+    code, out, err = cli("budget", station, "--format", "json")
     assert code == 0, err
     doc = json.loads(out)
     warnings = [w for w in doc["warnings"] if "rated coax" in w]
@@ -352,14 +339,14 @@ def test_cable_rating_below_the_line_maximum_warns_naming_the_band(tmp_path, cap
     assert load_v > rating
     assert doc["rows"][1]["elements"][0]["voltage_max_rms_v"] == pytest.approx(matched_v, rel=0.03)
     # the safety table shows the same margin and the warning
-    code, out, err = run(capsys, "safety", station)
+    code, out, err = cli("safety", station)
     assert code == 0 and "rated coax" in err and "40m" in err
     assert "voltage margin" in out
 
 
-def test_row_outside_the_exposure_tables_shows_no_figures(tmp_path, capsys):
+def test_row_outside_the_exposure_tables_shows_no_figures(cli, write_file):
     # 47 CFR 1.1310 Table 1 starts at 0.3 MHz: a 137 kHz row has no FCC distance to give
-    station = write(tmp_path, "lf.yaml", """\
+    station = write_file("lf.yaml", """\
 name: Below the exposure tables
 frequencies: [0.137 MHz, 1.9 MHz]
 radio: {power: 100 W}
@@ -367,12 +354,12 @@ antenna:
   impedance: {0.137 MHz: 50+j0, 1.9 MHz: 50+j0}
 feed: []
 """)
-    doc = budget_json(capsys, station)
+    doc = budget_json(cli, station)
     low, high = (row["exposure"] for row in doc["rows"])
     assert low["power_average_w"] == pytest.approx(100.0, rel=1e-12)
     assert low["fcc_uncontrolled_m"] is None and low["eirp_w"] is None
     assert high["fcc_uncontrolled_m"] > 0
-    code, out, err = run(capsys, "safety", station)
+    code, out, err = cli("safety", station)
     assert code == 0, err
     row = next(line for line in out.splitlines() if line.strip().startswith("0.137 MHz"))
     assert "nan" not in row.lower() and row.count("n/a") == 5, row

@@ -4,7 +4,7 @@ Expected values come from methods independent of linecalc's elements and cascade
 networks (its own lumped parts, attenuator and line media, compared through S-parameters),
 closed forms written out here (Pozar, Microwave Engineering, 4th ed.; the ARRL Antenna Book's
 transmission-line chapter) and circuit arithmetic by hand. The bad-input and JSON checks through
-the command line are in test_elements_cli.py.
+the command line are in tests/cli/test_elements_cli.py.
 """
 from __future__ import annotations
 
@@ -17,13 +17,11 @@ import skrf
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc import elements
 from linecalc.physics import loads
 from linecalc.physics import matching as tuner
-from linecalc.io.cable_library import load_library
 from linecalc.io.station_file import parse_station_text
 
 DB_PER_NEPER = 20 * np.log10(np.e)
@@ -55,14 +53,6 @@ class DistortionlessCable(cables.Cable):
         beta = omega / (self.velocity_factor * SPEED_OF_LIGHT)
         return (np.full(omega.shape, complex(self.z0_nominal_ohm)),
                 self.alpha_np_per_m + 1j * beta)
-
-
-def make_station(feed, frequency_hz, z_antenna_ohm, power_w=100.0, z_ref_ohm=Z_REF_OHM):
-    f = np.atleast_1d(np.asarray(frequency_hz, dtype=float))
-    z = np.array(np.broadcast_to(np.asarray(z_antenna_ohm, dtype=complex), f.shape))
-    return Station(name="element test", radio_power_w=power_w, reference_impedance_ohm=z_ref_ohm,
-                          labels=tuple(f"{x / 1e6:g} MHz" for x in f), frequency_hz=f,
-                          antenna=loads.ImpedanceTable(f, z), feed=tuple(feed))
 
 
 def rho_of(z_ohm, z0_ohm):
@@ -109,7 +99,7 @@ METER_PATHS = {
 
 @pytest.mark.parametrize("z_antenna", LOADS_OHM, ids=str)
 @pytest.mark.parametrize("path", list(METER_PATHS))
-def test_meter_forward_minus_reflected_is_the_net_power(path, z_antenna):
+def test_meter_forward_minus_reflected_is_the_net_power(path, z_antenna, make_station):
     # A directional coupler's forward and reflected power differ by the net power Re(V I*) at its
     # port, whatever the load (Pozar, 4th ed., section 2.3: P = |V+|^2 (1 - |rho|^2) / Z0 with RMS
     # phasors and a real Z0); rounding only, 1e-9 of the radio power.
@@ -129,14 +119,12 @@ def test_meter_forward_minus_reflected_is_the_net_power(path, z_antenna):
         np.testing.assert_allclose(element.dissipated_w, 0.0, atol=1e-9 * 100.0)  # a meter is lossless
 
 
-def test_meter_identity_with_an_swr_only_antenna():
+def test_meter_identity_with_an_swr_only_antenna(make_station):
     # An unknown phase averages the readings; forward - reflected is linear, so the identity holds
     # for the averages too.
     f = np.array([3.6e6, 14.2e6])
-    station = Station(name="swr only", radio_power_w=100.0, reference_impedance_ohm=50.0,
-                             labels=("80m", "20m"), frequency_hz=f, antenna=loads.SwrTable(f, np.array([3.0, 6.0])),
-                             feed=(elements.Meter("shack", 50.0), elements.Line(COAX, 30.0), elements.Meter("top", 50.0)))
-    result = budget.solve_budget(station)
+    feed = (elements.Meter("shack", 50.0), elements.Line(COAX, 30.0), elements.Meter("top", 50.0))
+    result = budget.solve_budget(make_station(feed, f, loads.SwrTable(f, np.array([3.0, 6.0])), labels=("80m", "20m")))
     for k in (0, 2):
         readings = result.elements[k].readings
         np.testing.assert_allclose(readings["forward_w"] - readings["reflected_w"], readings["net_w"],
@@ -147,7 +135,7 @@ def test_meter_identity_with_an_swr_only_antenna():
 
 @pytest.mark.parametrize("alpha_np_per_m", [0.001, 0.01, 0.03])
 @pytest.mark.parametrize("z_antenna", [12 - 30j, 300 + 400j, 5000 + 0j, 150 + 0j], ids=str)
-def test_meters_at_both_ends_of_a_real_z0_line_read_the_arrl_relationship(alpha_np_per_m, z_antenna):
+def test_meters_at_both_ends_of_a_real_z0_line_read_the_arrl_relationship(alpha_np_per_m, z_antenna, make_station):
     # ARRL Antenna Book, transmission-line chapter: the reflection loses the matched loss ML twice,
     # so |rho_radio| = |rho_antenna| 10^(-ML/10). On a line of exactly real Z0 = 50 ohm (the
     # distortionless line) this is exact (Pozar, 4th ed., section 2.7: rho(z) = rho_L e^(-2 gamma l)),
@@ -168,7 +156,7 @@ def test_meters_at_both_ends_of_a_real_z0_line_read_the_arrl_relationship(alpha_
 
 @pytest.mark.parametrize("length_m", [10.0, 40.0, 100.0])
 @pytest.mark.parametrize("z_antenna", [12 - 30j, 300 + 400j, 150 + 0j], ids=str)
-def test_meters_at_both_ends_of_a_complex_z0_coax(length_m, z_antenna):
+def test_meters_at_both_ends_of_a_complex_z0_coax(length_m, z_antenna, make_station):
     # The same relationship on a coax with a small complex Z0. Against the line's own Z0 it is
     # exact (Pozar, 4th ed., section 2.7); a 50-ohm meter reads rho' = (rho + s)/(1 + s rho) with
     # s = (Z0 - 50)/(Z0 + 50), so |rho' - rho| = |s| |1 - rho^2| / |1 + s rho| <= 2|s|/(1 - |s|) at
@@ -208,7 +196,7 @@ def test_ideal_transformer_chain_matrix_is_pozar_table_4_1(ratio):
 
 @pytest.mark.parametrize("z_load", [200 + 0j, 450 - 300j, 12 + 5j, 3000 + 1500j], ids=str)
 @pytest.mark.parametrize("ratio", RATIOS)
-def test_ideal_balun_turns_z_into_z_over_n(ratio, z_load):
+def test_ideal_balun_turns_z_into_z_over_n(ratio, z_load, make_station):
     # An ideal n:1 transformer presents Z_L / n at its input (Pozar, 4th ed., Table 4.1).
     balun = elements.Transformer("b", ratio, 0.0, 50.0)
     result = budget.solve_budget(make_station([balun], HF_HZ, z_load))
@@ -223,7 +211,7 @@ def test_ideal_balun_turns_z_into_z_over_n(ratio, z_load):
 
 @pytest.mark.parametrize("loss_db", [0.1, 0.2, 1.0, 3.0])
 @pytest.mark.parametrize("ratio", RATIOS)
-def test_lossy_balun_in_its_own_impedances_loses_its_loss(ratio, loss_db):
+def test_lossy_balun_in_its_own_impedances_loses_its_loss(ratio, loss_db, make_station):
     # Terminated in its own impedances (50 ohm in, 50 n out) it is matched and loses L dB:
     # S11 = S22 = 0, |S21| = 10^(-L/20) (Pozar, 4th ed., section 4.3, scikit-rf's conversion).
     balun = elements.Transformer("b", ratio, loss_db, 50.0)
@@ -244,7 +232,7 @@ def test_lossy_balun_in_its_own_impedances_loses_its_loss(ratio, loss_db):
 
 @pytest.mark.parametrize("count", [1, 2, 5])
 @pytest.mark.parametrize("loss_db", [0.0, 0.05, 0.3])
-def test_connector_is_a_matched_attenuator_of_count_times_loss(count, loss_db):
+def test_connector_is_a_matched_attenuator_of_count_times_loss(count, loss_db, make_station):
     # A matched attenuator: S11 = S22 = 0, S21 = -loss dB, no phase (Pozar, 4th ed., section 4.3,
     # Table 4.2 for the ABCD to S conversion), compared with scikit-rf's own attenuator.
     connector = elements.Attenuating("connector", "c", loss_db, 50.0, count)
@@ -335,7 +323,7 @@ def test_single_lossy_inductor_has_its_q():
 
 
 @pytest.mark.parametrize("q", [20.0, 100.0, 400.0])
-def test_heat_in_series_and_shunt_parts_by_hand(q):
+def test_heat_in_series_and_shunt_parts_by_hand(q, make_station):
     # A lossy inductor L (R = omega L / Q) between the radio and a 50-ohm load, net power P in:
     # series: I^2 = P / (R + 50), heat = P R / (R + 50);
     # shunt: |V|^2 = P / Re(1/Z + 1/50), heat = |V|^2 Re(1/Z). Circuit arithmetic (Ohm's law).
@@ -343,10 +331,10 @@ def test_heat_in_series_and_shunt_parts_by_hand(q):
     omega = 2 * np.pi * HF_HZ
     z = omega * inductance_h * (1 / q + 1j)
     series = budget.solve_budget(make_station([elements.LumpedPart("s", "series", 50.0, inductance_h=inductance_h,
-                                                                   inductor_q=q)], HF_HZ, 50.0, power_w))
+                                                                   inductor_q=q)], HF_HZ, 50.0, power_w=power_w))
     np.testing.assert_allclose(series.elements[0].dissipated_w, power_w * z.real / (z.real + 50.0), rtol=1e-9)
     shunt = budget.solve_budget(make_station([elements.LumpedPart("p", "shunt", 50.0, inductance_h=inductance_h,
-                                                                  inductor_q=q)], HF_HZ, 50.0, power_w))
+                                                                  inductor_q=q)], HF_HZ, 50.0, power_w=power_w))
     v_squared = power_w / (1 / z + 1 / 50.0).real
     np.testing.assert_allclose(shunt.elements[0].dissipated_w, v_squared * (1 / z).real, rtol=1e-9)
     np.testing.assert_allclose(shunt.power_antenna_w, v_squared / 50.0, rtol=1e-9)
@@ -387,7 +375,7 @@ def quarter_wave_m(cable, frequency_hz):
 
 
 @pytest.mark.parametrize("z_antenna", [50 + 0j, 120 - 80j, 20 + 30j], ids=str)
-def test_lossless_shorted_quarter_wave_stub_is_transparent(z_antenna):
+def test_lossless_shorted_quarter_wave_stub_is_transparent(z_antenna, make_station):
     # A shorted quarter-wave stub presents Z0 tan(pi/2) -> infinity across the path (Pozar, 4th
     # ed., section 2.3): the radio sees the antenna unchanged and nothing is lost. tan(pi/2) in
     # double precision is about 1.6e16, so rounding only.
@@ -404,7 +392,7 @@ def test_lossless_shorted_quarter_wave_stub_is_transparent(z_antenna):
     np.testing.assert_allclose(with_stub.power_antenna_w, without.power_antenna_w, rtol=1e-9)
 
 
-def test_lossy_shorted_quarter_wave_stub_is_nearly_transparent():
+def test_lossy_shorted_quarter_wave_stub_is_nearly_transparent(make_station):
     # With loss, Z_stub = Z0 coth(alpha l) (gamma l = alpha l + j pi/2; Pozar, 4th ed., section 2.7),
     # large and nearly real: the heat is P (50 / Re Z_stub) to first order, a few hundredths of a dB.
     frequency_hz = np.array([7.1e6])
@@ -419,7 +407,7 @@ def test_lossy_shorted_quarter_wave_stub_is_nearly_transparent():
     assert result.swr_radio[0] < 1.05
 
 
-def test_lossy_open_quarter_wave_stub_shorts_the_path():
+def test_lossy_open_quarter_wave_stub_shorts_the_path(make_station):
     # An open quarter-wave stub presents Z0 coth(alpha l + j pi/2) = Z0 tanh(alpha l), a few ohm
     # at most, across the path (Pozar, 4th ed., sections 2.3 and 2.7): almost all the power heats
     # the stub and the radio sees nearly a short.
@@ -539,12 +527,12 @@ def skrf_matched_loss_db(cable, length_m, frequency_hz):
 
 
 @pytest.mark.parametrize("network", ["L", "T"])
-def test_tuner_at_the_feedpoint_leaves_the_coax_at_its_matched_loss(network):
+def test_tuner_at_the_feedpoint_leaves_the_coax_at_its_matched_loss(network, library):
     result = budget.solve_budget(tuner_station(f"  - line: {{label: coax, cable: rg-8x, length: 30 m}}\n"
                                                f"  - tuner: {{network: {network}}}\n"))
     line, tuner_element = result.elements
     assert np.all(tuner_element.readings["matched"])
-    cable = load_library()["rg-8x"]
+    cable = library["rg-8x"]
     matched_loss_db = skrf_matched_loss_db(cable, 30.0, TUNER_ROWS_HZ)
     # The tuner terminates the coax in 50 ohm: not exactly its Z0 (about 50.5 - j0.7 ohm), so
     # the loss may move by the tiny mismatch; 0.01 dB is the resolution of a loss report.
@@ -562,7 +550,7 @@ def test_tuner_at_the_feedpoint_leaves_the_coax_at_its_matched_loss(network):
 
 
 @pytest.mark.parametrize("network", ["L", "T"])
-def test_tuner_at_the_feedpoint_of_a_real_z0_line_gives_the_radio_its_match(network):
+def test_tuner_at_the_feedpoint_of_a_real_z0_line_gives_the_radio_its_match(network, make_station):
     # Over a line of exactly real 50-ohm Z0 the tuner's match reaches the radio unchanged in SWR
     # terms: |rho| only shrinks along the line (Pozar, 4th ed., section 2.7).
     line = elements.Line(DistortionlessCable(id="real-z0", description="real-Z0 line", kind="coax",
@@ -576,11 +564,11 @@ def test_tuner_at_the_feedpoint_of_a_real_z0_line_gives_the_radio_its_match(netw
 
 
 @pytest.mark.parametrize("network", ["L", "T"])
-def test_tuner_in_the_shack_leaves_the_standing_waves_on_the_coax(network):
+def test_tuner_in_the_shack_leaves_the_standing_waves_on_the_coax(network, library):
     result = budget.solve_budget(tuner_station(f"  - tuner: {{network: {network}}}\n"
                                                f"  - line: {{label: coax, cable: rg-8x, length: 30 m}}\n"))
     tuner_element, line = result.elements
-    cable = load_library()["rg-8x"]
+    cable = library["rg-8x"]
     matched_loss_db = skrf_matched_loss_db(cable, 30.0, TUNER_ROWS_HZ)
     assert np.all(line.loss_db > matched_loss_db + 1.0)  # several dB more at SWR 10 to 60
     # the exact loss of the coax with the antenna on its far end, from scikit-rf: P_load/P_in =
@@ -686,12 +674,12 @@ def random_element(draw):
 @PROPERTY_SETTINGS
 @given(data=st.data(),
        frequency_hz=st.lists(_log_uniform(1.8e6, 30e6), min_size=1, max_size=3, unique=True).map(sorted).map(np.array))
-def test_property_energy_balance_and_passivity(data, frequency_hz):
+def test_property_energy_balance_and_passivity(data, frequency_hz, make_station):
     feed = data.draw(st.lists(random_element(), min_size=1, max_size=5))
     z_antenna = np.array([complex(data.draw(_log_uniform(1.0, 3000.0)), data.draw(st.floats(-3000.0, 3000.0)))
                           for _ in frequency_hz])
     power_w = data.draw(_log_uniform(1.0, 1500.0))
-    result = budget.solve_budget(make_station(feed, frequency_hz, z_antenna, power_w))
+    result = budget.solve_budget(make_station(feed, frequency_hz, z_antenna, power_w=power_w))
     # radio power = antenna power + the heat in every element: the solver books each element's
     # heat as the difference of the net power at its ports, so this is rounding only
     np.testing.assert_allclose(result.power_radio_w, power_w, rtol=1e-12)

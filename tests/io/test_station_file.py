@@ -62,3 +62,28 @@ def test_bands_and_frequencies_both_give_rows():
     assert station.labels == ("40m", "14.2 MHz")
     # ITU Radio Regulations Article 5 (from memory): 40 m in Region 2 is 7.0-7.3 MHz, centre 7.15 MHz
     assert station.frequency_hz[0] == pytest.approx(7.15e6)
+
+
+@pytest.mark.parametrize("frequency", ["0 Hz", "-7 MHz", "0 MHz"])
+def test_frequency_zero_or_below_is_refused(frequency):
+    text = f"""
+name: zero
+frequencies: [{frequency}]
+radio: {{power: 100 W}}
+antenna: {{impedance: {{7 MHz: 50}}}}
+feed: []
+"""
+    with pytest.raises(StationError, match="greater than zero"):
+        parse_station_text(text, "zero.yaml")
+
+
+def test_antenna_table_frequency_zero_is_refused():
+    text = """
+name: zero
+frequencies: [7 MHz]
+radio: {power: 100 W}
+antenna: {impedance: {0 MHz: 50, 7 MHz: 50}}
+feed: []
+"""
+    with pytest.raises(StationError, match="greater than zero"):
+        parse_station_text(text, "zero.yaml")

@@ -1,4 +1,5 @@
-"""Checks of the Touchstone one-port reader and writer, and of the demo sweep file.
+"""Checks of the Touchstone one-port reader and writer (the demo sweep is checked against its
+script in tests/cli/test_demo_stations.py).
 
 Independent references: files written by scikit-rf (``Network.write_touchstone``) from known
 impedances; hand-written files whose expected impedance is worked out by hand in the comment
@@ -8,18 +9,13 @@ section 2.3).
 """
 from __future__ import annotations
 
-import importlib.util
 import os
 import subprocess
 import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
 
-from linecalc.physics import deembed
-from linecalc import elements
-from linecalc.io.cable_library import load_library
 from linecalc.io.touchstone import (
     TouchstoneError,
     TouchstoneWriteError,
@@ -29,16 +25,9 @@ from linecalc.io.touchstone import (
 
 skrf = pytest.importorskip("skrf")
 
-REPO = Path(__file__).resolve().parent.parent
 FREQUENCY_HZ = np.array([1.85e6, 7.1e6, 14.2e6, 29.7e6, 144.2e6])
 Z_OHM = np.array([30 + 40j, 73 - 12j, 1200 + 900j, 4 - 60j, 52 + 3j])
 UNITS = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
-
-
-def write(tmp_path, name, text):
-    path = tmp_path / name
-    path.write_text(text)
-    return path
 
 
 # --- files written by scikit-rf --------------------------------------------------------------
@@ -95,9 +84,9 @@ HAND_WRITTEN = {
 
 
 @pytest.mark.parametrize("case", list(HAND_WRITTEN))
-def test_reads_hand_written_files(tmp_path, case):
+def test_reads_hand_written_files(case, write_file):
     name, text, expected = HAND_WRITTEN[case]
-    frequency_hz, z_ohm = read_one_port(write(tmp_path, name, text))
+    frequency_hz, z_ohm = read_one_port(write_file(name, text))
     np.testing.assert_allclose(frequency_hz, [7.1e6], rtol=1e-15)
     np.testing.assert_allclose(z_ohm, [expected], rtol=1e-12)
 
@@ -110,12 +99,13 @@ def test_scikit_rf_agrees_on_the_hand_written_s_z_and_v2_files(tmp_path):
             continue
         folder = tmp_path / case
         folder.mkdir()
-        path = write(folder, name, text)
+        path = folder / name
+        path.write_text(text)
         np.testing.assert_allclose(read_one_port(path)[1], skrf.Network(str(path)).z[:, 0, 0], rtol=1e-12)
 
 
-def test_an_open_reads_as_infinite_impedance(tmp_path):
-    _, z_ohm = read_one_port(write(tmp_path, "open.s1p", "# MHz S RI R 50\n7.0 1 0\n7.1 -1 0\n"))
+def test_an_open_reads_as_infinite_impedance(write_file):
+    _, z_ohm = read_one_port(write_file("open.s1p", "# MHz S RI R 50\n7.0 1 0\n7.1 -1 0\n"))
     assert np.isinf(z_ohm[0]) and z_ohm[1] == 0
 
 
@@ -157,9 +147,9 @@ BAD_FILES = {
 
 
 @pytest.mark.parametrize("case", list(BAD_FILES))
-def test_bad_files_name_file_and_line(tmp_path, case):
+def test_bad_files_name_file_and_line(case, write_file):
     name, text, line, words = BAD_FILES[case]
-    path = write(tmp_path, name, text)
+    path = write_file(name, text)
     with pytest.raises(TouchstoneError) as info:
         read_one_port(path)
     assert info.value.file == str(path)
@@ -186,8 +176,8 @@ def test_a_file_that_cannot_be_opened_names_the_file(tmp_path, kind):
     assert str(info.value).startswith(f"{path}: ")
 
 
-def test_without_scikit_rf_the_error_says_so(tmp_path, monkeypatch):
-    path = write(tmp_path, "a.s1p", "! header\n# MHz S RI R 50\n7.0 0.1 0\n")
+def test_without_scikit_rf_the_error_says_so(monkeypatch, write_file):
+    path = write_file("a.s1p", "! header\n# MHz S RI R 50\n7.0 0.1 0\n")
     monkeypatch.setitem(sys.modules, "skrf", None)
     monkeypatch.setitem(sys.modules, "skrf.io", None)
     monkeypatch.setitem(sys.modules, "skrf.io.touchstone", None)
@@ -231,8 +221,8 @@ def test_write_refuses_an_existing_output_without_force(tmp_path):
     assert sorted(p.name for p in tmp_path.iterdir()) == ["out.s1p"]  # no temporary file left
 
 
-def test_write_never_replaces_a_protected_input(tmp_path):
-    source = write(tmp_path, "measured.s1p", "# MHz S RI R 50\n7.0 0.1 0\n")
+def test_write_never_replaces_a_protected_input(tmp_path, write_file):
+    source = write_file("measured.s1p", "# MHz S RI R 50\n7.0 0.1 0\n")
     for target in (source, tmp_path / "." / "measured.s1p"):
         with pytest.raises(TouchstoneWriteError, match="input"):
             write_one_port(target, FREQUENCY_HZ, Z_OHM, force=True, protected=[source])
@@ -269,21 +259,3 @@ def test_write_rejects_bad_arrays(tmp_path):
     with pytest.raises(ValueError, match="infinite"):
         write_one_port(tmp_path / "a.s1p", FREQUENCY_HZ, np.full(FREQUENCY_HZ.shape, -50 + 0j))
     assert not list(tmp_path.iterdir())
-
-
-# --- the demo measurement --------------------------------------------------------------------
-
-def test_demo_sweep_deembeds_to_its_model():
-    spec = importlib.util.spec_from_file_location("make_demo_sweep", REPO / "stations" / "make_demo_sweep.py")
-    module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
-    path = REPO / "stations" / "demo-shack-sweep.s1p"
-    assert "SYNTHESISED DEMO DATA" in path.read_text().splitlines()[0]
-    frequency_hz, z_radio = read_one_port(path)
-    coax = elements.Line(load_library()["rg-213"], module.COAX_LENGTH_M)
-    z_antenna = deembed.deembed_impedance([coax.abcd(frequency_hz)], z_radio)
-    # the file holds 17 significant digits, so the model comes back to rounding
-    np.testing.assert_allclose(z_antenna, module.dipole_impedance_ohm(frequency_hz), rtol=1e-9)
-    # the model resonates at 7.1 MHz with R = 68 ohm (stations/make_demo_sweep.py)
-    at = np.argmin(np.abs(frequency_hz - 7.1e6))
-    assert z_antenna[at] == pytest.approx(68 + 0j, abs=1e-6)

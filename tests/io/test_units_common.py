@@ -3,13 +3,10 @@ from __future__ import annotations
 
 import subprocess
 import sys
-from pathlib import Path
 
 import pytest
 
 from linecalc.io.units import COMMON_UNITS, UnitError, parse_quantity, registry
-
-ROOT = Path(__file__).resolve().parent.parent
 
 
 @pytest.mark.parametrize("symbol", sorted(COMMON_UNITS))
@@ -30,9 +27,9 @@ def test_other_units_go_to_pint():
         parse_quantity("30 kg", "m")
 
 
-def test_plain_budget_does_not_import_pint():
+def test_plain_budget_does_not_import_pint(data_path):
     code = ("import sys; from linecalc.cli import main; main(['budget', sys.argv[1]]); "
             "print('pint' in sys.modules, 'matplotlib' in sys.modules, 'skrf' in sys.modules, file=sys.stderr)")
-    result = subprocess.run([sys.executable, "-c", code, str(ROOT / "stations" / "hilltop-dipole.yaml")],
+    result = subprocess.run([sys.executable, "-c", code, str(data_path("hilltop-dipole.yaml"))],
                             capture_output=True, text=True, check=True)
     assert result.stderr.strip().splitlines()[-1] == "False False False"

@@ -13,7 +13,6 @@ import skrf
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc import elements
@@ -199,16 +198,9 @@ def test_real_z0_line_total_loss_and_input_swr_are_the_arrl_closed_form(length_m
                                arrl_input_swr(matched_loss_db, np.abs(rho_load)), rtol=1e-9)
 
 
-def _single_line_station(cable, length_m, frequency_hz, antenna):
-    return Station(name="test path", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
-                          labels=tuple(f"{f / 1e6:g} MHz" for f in frequency_hz),
-                          frequency_hz=frequency_hz, antenna=antenna,
-                          feed=(elements.Line(cable, length_m),))
-
-
 @pytest.mark.parametrize("length_m", [30.0, 100.0])
 @pytest.mark.parametrize("load_name", ["50", *LOADS_OHM])
-def test_dielectric_loss_line_budget_is_the_arrl_closed_form(length_m, load_name):
+def test_dielectric_loss_line_budget_is_the_arrl_closed_form(length_m, load_name, make_station):
     # k_conductor = 0: R' = 0 and Z0 = 50/sqrt(1 - j tan(delta)), real to 1e-4, so the real-Z0
     # closed form holds (ARRL Antenna Book, transmission-line chapter) to 0.01 dB, except for
     # what the small angle theta of Z0 leaves at high SWR: net power at a point is
@@ -222,7 +214,7 @@ def test_dielectric_loss_line_budget_is_the_arrl_closed_form(length_m, load_name
     frequency_hz = np.array([146e6, 435e6, 1296e6, 2400e6])
     z_load = 50.0 if load_name == "50" else LOADS_OHM[load_name]
     antenna = loads.ImpedanceTable(frequency_hz, np.full(frequency_hz.shape, z_load, dtype=complex))
-    result = budget.solve_budget(_single_line_station(cable, length_m, frequency_hz, antenna))
+    result = budget.solve_budget(make_station([elements.Line(cable, length_m)], frequency_hz, antenna))
 
     _, gamma = cable.constants(frequency_hz)
     matched_loss_db = DB_PER_NEPER * gamma.real * length_m
@@ -271,7 +263,7 @@ def test_conductor_loss_coax_phase_average_is_the_arrl_closed_form(length_m, swr
 
 @pytest.mark.parametrize("length_m", [30.0, 100.0])
 @pytest.mark.parametrize("swr", [3.0, 6.0, 10.0])
-def test_swr_only_budget_is_the_arrl_closed_form_on_average(length_m, swr):
+def test_swr_only_budget_is_the_arrl_closed_form_on_average(length_m, swr, make_station):
     # The budget of an SWR-only antenna: SWR against the 50-ohm reference, phase unknown, loss
     # from the phase-mean delivered power. From 3.5 MHz up the coax's Z0 is within 2 % of 50 ohm,
     # so the closed form (ARRL Antenna Book, transmission-line chapter) holds to 0.01 dB
@@ -280,7 +272,7 @@ def test_swr_only_budget_is_the_arrl_closed_form_on_average(length_m, swr):
     # the test above covers that band with |rho| against Z0.)
     frequency_hz = HF_TO_UHF_HZ[1:]
     antenna = loads.SwrTable(frequency_hz, np.full(frequency_hz.shape, swr))
-    result = budget.solve_budget(_single_line_station(COAX, length_m, frequency_hz, antenna))
+    result = budget.solve_budget(make_station([elements.Line(COAX, length_m)], frequency_hz, antenna))
     _, gamma = COAX.constants(frequency_hz)
     matched_loss_db = DB_PER_NEPER * gamma.real * length_m
     rho_magnitude = (swr - 1) / (swr + 1)
@@ -337,18 +329,14 @@ def _heat_along_line_w(cable, frequency_hz, length_m, voltage_load_v, current_lo
 
 
 @pytest.mark.parametrize("load_name", ["matched", *LOADS_OHM])
-def test_energy_balance_and_heat_integrated_along_the_lines(load_name):
+def test_energy_balance_and_heat_integrated_along_the_lines(load_name, make_station):
     # Radio power = antenna power + heat in every element; and each line's heat, integrated
     # from R' and G' along it (Poynting's theorem for the line), equals what the solver booked.
     frequency_hz = HF_TO_VHF_HZ
     feed = (elements.Line(COAX, 12.0), elements.Line(LADDER, 30.0), elements.Line(COAX, 3.0))
     z0_last, _ = COAX.constants(frequency_hz)
     rho = load_rho(load_name, z0_last)
-    antenna = loads.ImpedanceTable(frequency_hz, Z_REF_OHM * (1 + rho) / (1 - rho))
-    station = Station(name="three lines", radio_power_w=100.0, reference_impedance_ohm=Z_REF_OHM,
-                             labels=tuple(map(str, frequency_hz)), frequency_hz=frequency_hz,
-                             antenna=antenna, feed=feed)
-    result = budget.solve_budget(station)
+    result = budget.solve_budget(make_station(feed, frequency_hz, Z_REF_OHM * (1 + rho) / (1 - rho)))
 
     heat_w = sum(e.dissipated_w for e in result.elements)
     np.testing.assert_allclose(result.power_antenna_w + heat_w, result.power_radio_w, rtol=1e-9)

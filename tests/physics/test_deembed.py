@@ -28,7 +28,7 @@ DB_PER_NEPER = 20 * np.log10(np.e)
 SPEED_OF_LIGHT = 299_792_458.0
 FREQUENCY_HZ = np.array([1.85e6, 3.6e6, 7.1e6, 14.2e6, 21.2e6, 28.5e6, 50.2e6])
 # A 50-ohm coax of the RG-213 class described by its loss terms (inputs for these checks, the
-# same size as in tests/test_solver.py): its Z0 is complex, as a real cable's is.
+# same size as in tests/physics/test_cascade.py): its Z0 is complex, as a real cable's is.
 COAX = Cable(id="coax-50", description="RG-213 class coax", kind="coax", z0_nominal_ohm=50.0,
              velocity_factor=0.66, k_conductor=2.0e-6, k_dielectric=3.2e-12)
 LOADS_OHM = np.array([12 - 30j, 50 + 0j, 73 + 40j, 300 - 450j, 2 + 1j, 1500 + 800j, 35 - 5j])

@@ -9,12 +9,10 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from linecalc.studies.station import Station
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc import elements
 from linecalc.physics import exposure
-from linecalc.physics import loads
 
 # 1 mW/cm^2 = 1e-3 W / 1e-4 m^2 = 10 W/m^2 (SI prefixes).
 W_PER_M2_PER_MW_PER_CM2 = 10.0
@@ -136,14 +134,7 @@ def test_distance_grows_as_the_square_root_of_power(factor):
         np.testing.assert_allclose(scaled[key] / base[key], np.sqrt(factor), rtol=1e-12)
 
 
-def _station(cable, frequency_hz):
-    antenna = loads.ImpedanceTable(frequency_hz, np.array([72.0 - 35.0j]))
-    return Station(name="exposure test", radio_power_w=100.0, reference_impedance_ohm=50.0,
-                          labels=("20m",), frequency_hz=frequency_hz, antenna=antenna,
-                          feed=(elements.Line(cable, 40.0),))
-
-
-def test_distance_falls_when_the_feedline_loss_rises():
+def test_distance_falls_when_the_feedline_loss_rises(make_station):
     # Same antenna, same radio, two 40 m feedlines: the lossier one delivers fewer watts to the
     # antenna (the loss budget), so every distance shrinks, as sqrt of the antenna powers.
     frequency_hz = np.array([14.2e6])
@@ -151,7 +142,8 @@ def test_distance_falls_when_the_feedline_loss_rises():
                                    [1e6, 10e6, 100e6], [0.005, 0.016, 0.05])
     high = cables.cable_from_points("lossy", "test coax, lossy", "coax", 50.0, 0.66,
                                     [1e6, 10e6, 100e6], [0.02, 0.07, 0.25])
-    antenna_w = [budget.solve_budget(_station(c, frequency_hz)).power_antenna_w for c in (low, high)]
+    two_feedlines = [make_station([elements.Line(c, 40.0)], frequency_hz, 72.0 - 35.0j) for c in (low, high)]
+    antenna_w = [budget.solve_budget(station).power_antenna_w for station in two_feedlines]
     assert antenna_w[1][0] < 0.9 * antenna_w[0][0]  # the check has teeth
     duty = exposure.duty_factor("cw")
     distances = [exposure.exposure_distances(frequency_hz, exposure.average_power_w(p, duty, 1.0), 2.15)

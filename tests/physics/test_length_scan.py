@@ -12,14 +12,12 @@ import tracemalloc
 import numpy as np
 import pytest
 
-from linecalc.studies.station import Station
 from linecalc.physics import length_scan as advisor
 from linecalc.physics import bands
 from linecalc.studies import budget
 from linecalc.physics import cables
 from linecalc import elements
 from linecalc.physics import twoports
-from linecalc.physics import loads
 from linecalc.physics import matching as tuner
 from linecalc.physics import matching_fast as tuner_scan
 
@@ -59,11 +57,10 @@ def advice():
     return scan()
 
 
-def station(feed):
-    table = loads.ImpedanceTable(FREQUENCY_HZ, Z_ANTENNA)
-    labels = tuple(f"{f / 1e6:.4f} MHz" for f in FREQUENCY_HZ)
-    return Station(name="advisor check", radio_power_w=POWER_W, reference_impedance_ohm=R0, labels=labels,
-                          frequency_hz=FREQUENCY_HZ, antenna=table, feed=tuple(feed))
+@pytest.fixture(scope="module")
+def station(make_station):
+    """The scan's frequencies and doublet as a station with ``feed``, for the budget to solve."""
+    return lambda feed: make_station(feed, FREQUENCY_HZ, Z_ANTENNA, power_w=POWER_W, z_ref_ohm=R0)
 
 
 def tuner_element(network="T"):
@@ -73,7 +70,7 @@ def tuner_element(network="T"):
 # --- the best window, re-solved one length at a time ---------------------------------------
 
 @pytest.mark.parametrize("network", ["T", "L"])
-def test_best_window_matches_every_band_when_resolved_one_length_at_a_time(network):
+def test_best_window_matches_every_band_when_resolved_one_length_at_a_time(network, station):
     # Independent method: the full tuner design (scan, 48-step refinement, closest-setting
     # search) inside budget.solve_budget's chain-matrix cascade, one length per solve.
     result = scan(network)
@@ -101,7 +98,7 @@ def test_best_window_matches_every_band_when_resolved_one_length_at_a_time(netwo
     assert best.worst_tuner_loss_db == pytest.approx(advisor_losses.max())
 
 
-def test_voltage_agrees_with_the_cascade_sampled_every_centimetre(advice):
+def test_voltage_agrees_with_the_cascade_sampled_every_centimetre(advice, station):
     # Independent method: the line cut into 1 cm pieces, each a chain matrix, solved by the
     # budget cascade with the full tuner design; the largest node voltage on the line.
     # Pozar, Microwave Engineering, 4th ed., section 4.4 (cascaded chain matrices).
@@ -118,7 +115,7 @@ def test_voltage_agrees_with_the_cascade_sampled_every_centimetre(advice):
     assert advice.worst_voltage_v[index] == pytest.approx(sampled, rel=6e-3)
 
 
-def test_fixed_balun_between_tuner_and_feeder():
+def test_fixed_balun_between_tuner_and_feeder(station):
     # A 4:1 balun between tuner and feeder, passed as a fixed chain matrix; re-solved by the
     # budget with the balun in the feed (independent cascade and full tuner design).
     balun = elements.Transformer(label="balun", impedance_ratio=4.0, loss_db=0.2, z_ref_ohm=R0)

@@ -19,7 +19,7 @@ from linecalc.physics.cables import Cable
 
 Z_REF_OHM = 50.0
 # A 50-ohm coax of the RG-213 class by its loss terms (inputs for these checks, as in
-# tests/test_solver.py); its Z0 is complex.
+# tests/physics/test_cascade.py); its Z0 is complex.
 COAX = Cable(id="coax-50", description="RG-213 class coax", kind="coax", z0_nominal_ohm=50.0,
              velocity_factor=0.66, k_conductor=2.0e-6, k_dielectric=3.2e-12)
 
