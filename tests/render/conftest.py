@@ -1,0 +1,77 @@
+"""Small results for the renderer's tests: real solves of tiny test stations, made once.
+
+The renderer only formats: these results are its input, and the tests check what the text,
+CSV and JSON make of them.
+"""
+from __future__ import annotations
+
+import pytest
+
+# Two rows: a matched 50-ohm antenna, and a dead short (an infinite SWR and loss, no watts at the
+# antenna). A label with a comma, for the CSV quoting.
+PLAIN = """\
+name: Render test
+radio: {power: 100 W}
+frequencies: [7.1 MHz, 14.2 MHz]
+antenna:
+  impedance: {7.1 MHz: 50+j0, 14.2 MHz: 0+j0}
+feed:
+  - meter: {label: shack meter}
+  - connector: {label: "plugs, two", count: 2, loss: 0.05 dB}
+  - line: {label: coax, cable: rg-213, length: 10 m}
+"""
+
+# The same path to an antenna given by its SWR alone.
+SWR_ONLY = PLAIN.replace("impedance: {7.1 MHz: 50+j0, 14.2 MHz: 0+j0}", "swr: {7.1 MHz: 2.5, 14.2 MHz: 4}")
+
+# A T tuner whose capacitors stop at 30 pF: it matches on 7.1 and 14.2 MHz, not on 3.6 MHz
+# (invented loads of a doublet off resonance).
+TUNER = """\
+name: Tuner render test
+radio: {power: 100 W}
+frequencies: [3.6 MHz, 7.1 MHz, 14.2 MHz]
+antenna:
+  impedance: {3.6 MHz: 95+j150, 7.1 MHz: 2400-j1700, 14.2 MHz: 1800+j1250}
+feed:
+  - tuner: {label: shack tuner, network: T, capacitance: {min: 10 pF, max: 30 pF}}
+  - line: {label: coax, cable: rg-8x, length: 30 m}
+"""
+
+
+def _solve(text, name):
+    from linecalc.io.station_file import parse_station_text
+    from linecalc.studies.budget import solve_budget
+
+    return solve_budget(parse_station_text(text, name))
+
+
+@pytest.fixture(scope="session")
+def plain_result():
+    return _solve(PLAIN, "plain.yaml")
+
+
+@pytest.fixture(scope="session")
+def swr_only_result():
+    return _solve(SWR_ONLY, "swr-only.yaml")
+
+
+@pytest.fixture(scope="session")
+def tuner_result():
+    return _solve(TUNER, "tuner.yaml")
+
+
+@pytest.fixture(scope="session")
+def comparison(data_path):
+    """The test dipole's coax against two other cables (three alternatives, three rows)."""
+    import linecalc
+
+    return linecalc.solve_compare(linecalc.load_station(data_path("hilltop-dipole.yaml")),
+                                  cables=["rg-58", "window-line-450"])
+
+
+@pytest.fixture(scope="session")
+def feedpoint_result(data_path):
+    """The test copy of the demo's shack sweep moved to the feedpoint (101 points)."""
+    import linecalc
+
+    return linecalc.solve_feedpoint(linecalc.load_station(data_path("shack-sweep-dipole.yaml")))
