@@ -16,6 +16,8 @@ Fixtures:
 - ``write_file(name, text)``: a file written into the test's ``tmp_path``; returns its path.
 - ``one_error_line(err, file)``: the (line, message) of the one stderr line ``FILE:LINE: message``
   that bad input gives, after checking that it is one line with no traceback.
+- ``line_of(text, fragment)``: the 1-based line of ``text`` that holds ``fragment`` (on exactly one
+  line): where a test expects an error, found in its own text rather than taken from linecalc.
 - ``make_station(feed, frequency_hz, antenna, ...)``: a `Station` built in code.
 - ``library``: the cable library (id -> Cable), loaded once; do not change it.
 """
@@ -90,6 +92,16 @@ def one_error_line():
         return int(match.group(1)), match.group(2)
 
     return check
+
+
+@pytest.fixture(scope="session")
+def line_of():
+    def find(text, fragment):
+        lines = [n for n, line in enumerate(text.splitlines(), start=1) if fragment in line]
+        assert len(lines) == 1, (fragment, lines)
+        return lines[0]
+
+    return find
 
 
 @pytest.fixture(scope="session")

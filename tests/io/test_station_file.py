@@ -26,12 +26,6 @@ from linecalc.studies.station import CompareSpec, Station
 FOOT_M = 0.3048  # exactly: NIST SP 811 (2008), appendix B.8 (foot, international)
 
 
-def line_of(text, fragment):
-    """The 1-based line of ``text`` that holds ``fragment`` (which must occur on exactly one line)."""
-    lines = [n for n, line in enumerate(text.splitlines(), start=1) if fragment in line]
-    assert len(lines) == 1, (fragment, lines)
-    return lines[0]
-
 METRES = """\
 name: Unit test
 frequencies: [7.1 MHz, 14.2 MHz]
@@ -199,7 +193,7 @@ def test_the_compare_key_is_read_into_station_compare(full, library):
     np.testing.assert_allclose(spec.lengths_m, [1.0, 2 * FOOT_M], rtol=1e-15)
 
 
-def test_key_lines_give_the_lines_of_antenna_feed_and_compare(full):
+def test_key_lines_give_the_lines_of_antenna_feed_and_compare(full, line_of):
     for key in ("antenna", "feed", "compare"):
         assert full.key_lines[key] == line_of(FULL, f"{key}:"), key
 
@@ -483,12 +477,11 @@ BAD = {
 
 
 @pytest.mark.parametrize("case", BAD, ids=list(BAD))
-def test_bad_input_is_a_station_error_at_its_line_and_key(case, tmp_path):
+def test_bad_input_is_a_station_error_at_its_line_and_key(case, write_file, line_of):
     old, new, fragment, path, words = BAD[case]
     assert GOOD.count(old) == 1, old
     text = GOOD.replace(old, new)
-    station = tmp_path / "station.yaml"
-    station.write_text(text)
+    station = write_file("station.yaml", text)
     with pytest.raises(StationError) as info:
         load_station(station)
     error = info.value
@@ -509,7 +502,7 @@ def test_bad_input_is_a_station_error_at_its_line_and_key(case, tmp_path):
     ("feed:\n", "feed: [\n", "- meter", "YAML syntax error"),  # the first token a flow sequence cannot hold
     ("{power: 100 W}", "{power: 100 W, power: 50 W}", "radio:", "duplicate key 'power'"),
 ])
-def test_errors_of_the_whole_document_name_a_line_and_no_key(old, new, fragment, words):
+def test_errors_of_the_whole_document_name_a_line_and_no_key(old, new, fragment, words, line_of):
     text = GOOD.replace(old, new, 1) if old else ""
     with pytest.raises(StationError) as info:
         parse_station_text(text, "doc.yaml")
