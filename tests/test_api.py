@@ -153,9 +153,6 @@ def test_a_compare_key_naming_no_line_is_a_station_error_at_that_key(data_path, 
     assert "attic run" in str(info.value) and str(info.value).endswith("(at compare)")
 
 
-@pytest.mark.xfail(strict=True, reason="with no compare: key in the file, the loader's key_lines['compare'] is the "
-                                       "document's first line, so solve_compare's fallback to the feed: line never "
-                                       "applies and 'nothing to compare' names the file's first key")
 def test_nothing_to_compare_without_a_compare_key_names_the_feed(data_path, line_of):
     path = data_path("hilltop-dipole.yaml")
     with pytest.raises(linecalc.StationError) as info:

@@ -221,7 +221,7 @@ def station_from_document(doc, file="<station>") -> Station:
                       band_edges_hz=band_edges, compare=spec,
                       source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
-                                 "compare": ctx.child(doc, "compare").line})
+                                 **({"compare": ctx.child(doc, "compare").line} if "compare" in doc else {})})
     return station
 
 
