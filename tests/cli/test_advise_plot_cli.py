@@ -80,16 +80,17 @@ def _png_size(path):
 
 
 @pytest.mark.parametrize("kind", ["swr", "budget", "smith", "voltage", "compare"])
-def test_plot_writes_a_png_of_sensible_size(kind, tmp_path, run, doublet):
+def test_plot_writes_a_png_of_sensible_size(kind, tmp_path, cli, doublet):
+    # in-process (the entry point itself is run by test_plot_svg_and_bad_suffix)
     out = tmp_path / f"{kind}.png"
-    result = run("plot", doublet, kind, out, "--sweep", "11")
-    assert result.returncode == 0, result.stderr
+    code, _, err = cli("plot", doublet, kind, out, "--sweep", "11")
+    assert code == 0, err
     width, height = _png_size(out)
     assert (width, height) == (1000, 600)
     assert 10_000 < out.stat().st_size < 2_000_000
-    again = run("plot", doublet, kind, out)
-    assert again.returncode == 2 and "--force" in again.stderr
-    assert run("plot", doublet, kind, out, "--force").returncode == 0
+    code, _, err = cli("plot", doublet, kind, out, "--sweep", "11")
+    assert code == 2 and "--force" in err
+    assert cli("plot", doublet, kind, out, "--sweep", "11", "--force")[0] == 0
     assert [p.name for p in tmp_path.iterdir()] == [out.name]  # no temporary file left
 
 

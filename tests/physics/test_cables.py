@@ -406,6 +406,7 @@ def test_stored_tables_are_what_the_geometry_gives(cable_id):
     np.testing.assert_allclose(stored, derive.attenuation_db_per_m(entry, f), rtol=5e-3)
 
 
+@pytest.mark.slow  # a charge-simulation solve of the derivation script: several seconds
 def test_stranded_field_diameter_ratios():
     derive = load_derive_script()
     # Source: coax design practice takes 0.939 of the overall diameter for a 7-strand conductor
