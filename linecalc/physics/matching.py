@@ -13,7 +13,6 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from linecalc.physics.cascade import cascade_abcd
 from linecalc.physics.lumped import capacitor_impedance_ohm, inductor_impedance_ohm, series_abcd, shunt_abcd
 
 # Unloaded Q of a good HF inductor and of an air or ceramic variable capacitor: common practice.
@@ -394,8 +393,9 @@ def _design_t_flat(frequency_hz, z_load, r0, parts):
 def _solution(network, slots, values, frequency_hz, z_load, r0, parts, shape, accepted):
     """The TunerSolution of the setting ``values`` (n_slots, N)."""
     immittances = _immittances(slots, values, frequency_hz, parts)
-    abcd = np.broadcast_to(cascade_abcd([series_abcd(w) if connection == "series" else shunt_abcd(w)
-                                         for (_, connection, _), w in zip(slots, immittances)]), (len(z_load), 2, 2))
+    abcd = np.broadcast_to(np.eye(2, dtype=complex), (len(z_load), 2, 2))
+    for (_, connection, _), w in zip(slots, immittances):
+        abcd = abcd @ (series_abcd(w) if connection == "series" else shunt_abcd(w))
     v, i = _drive(slots, immittances, z_load)
     swr_in = _swr(np.abs((v - r0 * i) / (v + r0 * i)))
     p_in = (v * i.conj()).real
