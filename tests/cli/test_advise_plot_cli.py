@@ -20,18 +20,6 @@ def run(linecalc_command):
     return lambda *args: linecalc_command(*args, timeout=300)
 
 
-@pytest.fixture
-def doublet(data_path):
-    """A doublet on window line behind a balanced tuner, with a compare: key."""
-    return data_path("orchard-doublet.yaml")
-
-
-@pytest.fixture
-def dipole(data_path):
-    """A dipole on coax, with no tuner and no compare: key."""
-    return data_path("hilltop-dipole.yaml")
-
-
 def test_advise_best_window_matches_when_re_solved_one_length_at_a_time(run, doublet):
     result = run("advise", doublet, "--from", "5 m", "--to", "25 m", "--step", "5 cm", "--max-loss", "0.35",
                  "--format", "json")

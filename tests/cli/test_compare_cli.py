@@ -7,18 +7,6 @@ import json
 import pytest
 
 
-@pytest.fixture
-def doublet(data_path):
-    """A doublet whose compare: key lists three cables and the tuner positions."""
-    return data_path("orchard-doublet.yaml")
-
-
-@pytest.fixture
-def dipole(data_path):
-    """A dipole with no compare: key."""
-    return data_path("hilltop-dipole.yaml")
-
-
 def test_cli_compare_formats(doublet, linecalc_command):
     table = linecalc_command("compare", doublet)
     assert table.returncode == 0, table.stderr
