@@ -599,19 +599,19 @@ def run_cli(text, command="budget", fmt="table"):
 
 # ---------------------------------------------------------------- the tests
 
-@settings(DEFAULT, max_examples=300)
+@settings(DEFAULT, max_examples=200)
 @given(valid_texts)
 def test_valid_documents_load_and_solve(text):
     assert load_and_solve(text) != "refused", text
 
 
-@settings(DEFAULT, max_examples=600)
+@settings(DEFAULT, max_examples=400)
 @given(mutated_texts())
 def test_mutated_documents_end_in_a_result_or_a_station_error(text):
     load_and_solve(text)
 
 
-@settings(DEFAULT, max_examples=300)
+@settings(DEFAULT, max_examples=200)
 @given(garbage_texts)
 def test_garbage_yaml_ends_in_a_station_error(text):
     load_and_solve(text)
@@ -621,13 +621,13 @@ COMMANDS = [("budget", "table"), ("budget", "json"), ("budget", "csv"), ("safety
             ("compare", "table"), ("compare", "json"), ("compare", "csv")]
 
 
-@settings(DEFAULT, max_examples=120)
+@settings(DEFAULT, max_examples=80)
 @given(valid_texts, st.sampled_from(COMMANDS))
 def test_cli_on_valid_documents_exits_0_or_2(text, command):
     run_cli(text, *command)
 
 
-@settings(DEFAULT, max_examples=150)
+@settings(DEFAULT, max_examples=100)
 @given(st.one_of(mutated_texts(), garbage_texts), st.sampled_from(COMMANDS))
 def test_cli_on_bad_documents_exits_2_with_one_line(text, command):
     run_cli(text, *command)
