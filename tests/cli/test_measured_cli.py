@@ -252,8 +252,9 @@ feed:
 def skrf_shack_path(frequency_hz):
     library = load_library()
     media = skrf.media.DefinedGammaZ0(skrf.Frequency.from_f(frequency_hz, unit="hz"), z0=Z_REF_OHM)
-    # a connector is a matched, phase-free loss: scikit-rf's matched attenuator of -0.1 dB
-    return (line_network(library["rg-213"], 18.0, frequency_hz) ** media.attenuator(-0.1)
+    # a connector is a series resistance that loses 0.1 dB between 50-ohm terminations:
+    # R = 50 (10^(0.1/10) - 1) (README, how the small parts are modelled), scikit-rf's resistor
+    return (line_network(library["rg-213"], 18.0, frequency_hz) ** media.resistor(Z_REF_OHM * (10 ** 0.01 - 1))
             ** line_network(library["rg-8x"], 7.0, frequency_hz))
 
 
