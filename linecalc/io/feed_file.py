@@ -26,7 +26,9 @@ import dataclasses
 
 import numpy as np
 
-from linecalc.physics.cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
+from linecalc.physics.cables import (CONDUCTIVITY_S_PER_M, IACS_S_PER_M, STEEL_CORE_CONDUCTIVITY_S_PER_M,
+                                     cable_from_points, cladding_thickness_m, coax_from_geometry,
+                                     two_wire_from_geometry)
 from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from linecalc.elements.parts import BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR
 from linecalc.physics.matching import TunerParts
@@ -71,7 +73,8 @@ def _inline_cable(doc, ctx, label):
         mapping(doc, ctx, required=_POINTS_KEYS, optional=("kind", "geometry") + common)
     elif geometry == "coax":
         mapping(doc, ctx, required=("geometry",) + _COAX_KEYS,
-                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor") + common)
+                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor",
+                           "inner_conductivity_iacs") + common)
     elif geometry == "two-wire":
         mapping(doc, ctx, required=("geometry",) + _TWO_WIRE_KEYS,
                  optional=("permittivity", "velocity_factor", "loss_tangent", "material", "conductor_factor") + common)
@@ -121,10 +124,19 @@ def _inline_cable(doc, ctx, label):
         big_d = quantity(doc, "dielectric_diameter", ctx, "m")
         if not big_d > d:
             raise ctx.child(doc, "dielectric_diameter").error("must be larger than the inner diameter")
+        cladding = None
+        if "inner_conductivity_iacs" in doc:
+            if material("inner_material") != "copper-clad steel":
+                raise ctx.child(doc, "inner_conductivity_iacs").error(
+                    "inner_conductivity_iacs belongs to inner_material: copper-clad steel")
+            low = STEEL_CORE_CONDUCTIVITY_S_PER_M / IACS_S_PER_M * 100
+            iacs = number(doc, "inner_conductivity_iacs", ctx, low=low, high=100)
+            cladding = cladding_thickness_m(d, iacs / 100 * IACS_S_PER_M)
         return _rated(coax_from_geometry(cable_id, description, d, big_d,
                                          number(doc, "permittivity", ctx, low=1, low_open=False), tangent(),
                                          material("inner_material"), material("outer_material"),
-                                         factor("inner_factor"), factor("outer_factor"), max_voltage), max_power)
+                                         factor("inner_factor"), factor("outer_factor"), max_voltage, cladding),
+                      max_power)
     d = quantity(doc, "wire_diameter", ctx, "m")
     spacing = quantity(doc, "spacing", ctx, "m")
     if not spacing > d:
