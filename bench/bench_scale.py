@@ -22,7 +22,7 @@ import time, resource
 import numpy as np
 from linecalc.studies.budget import solve_budget
 from linecalc.studies.station import Station
-from linecalc.elements import Attenuating, Line
+from linecalc.elements import Connector, Line
 from linecalc.io.cable_library import load_library
 from linecalc.physics.loads import ImpedanceTable
 
@@ -30,7 +30,7 @@ cables = load_library()
 feed = []
 for k in range(100):
     feed.append(Line(cables["rg-213" if k % 2 else "foam-10mm"], 0.5 + 0.01 * k, f"jumper {k}"))
-    feed.append(Attenuating("connector", f"connector {k}", 0.05, 50.0))
+    feed.append(Connector(f"connector {k}", 0.05, 50.0))
 f = np.linspace(1.8e6, 30e6, 10_001)
 antenna = ImpedanceTable(np.array([1.8e6, 30e6]), np.array([30 - 40j, 300 + 200j]))
 station = Station("200 elements", 100.0, 50.0, tuple(f"{x:g}" for x in f), f, antenna, tuple(feed))

@@ -41,12 +41,18 @@ def linecalc_path(frequency_hz, path, rho_load):
 
 def inline_constants(frequency_hz, cable):
     """Z0 and gamma from a fitted cable's four numbers, the bare formula inline (as linecalc does:
-    R' = 2 Z0 k_c sqrt(f), G' = 2 k_d f / Z0, L' = Z0/v + R'/omega, C' = 1/(Z0 v))."""
+    G' = 2 k_d f / Z0, C' = 1/(Z0 v), L' = Z0/v + R'/omega, and R' in closed form so that
+    Re(gamma) = k_c sqrt(f) + k_d f exactly; see physics.cables.rlgc_for_attenuation)."""
     omega = 2 * np.pi * frequency_hz
     v = cable.velocity_factor * 299_792_458.0
-    r = 2 * cable.z0_nominal_ohm * cable.k_conductor * np.sqrt(frequency_hz)
-    z = r + 1j * omega * (cable.z0_nominal_ohm / v + r / omega)
-    y = 2 * cable.k_dielectric * frequency_hz / cable.z0_nominal_ohm + 1j * omega / (cable.z0_nominal_ohm * v)
+    alpha = cable.k_conductor * np.sqrt(frequency_hz) + cable.k_dielectric * frequency_hz
+    g = 2 * cable.k_dielectric * frequency_hz / cable.z0_nominal_ohm
+    b, x = omega / (cable.z0_nominal_ohm * v), omega * cable.z0_nominal_ohm / v
+    y2 = g * g + b * b
+    beta = (alpha * (b - g) + np.sqrt(alpha ** 2 * (b - g) ** 2 + (b + g) * ((b + g) * alpha ** 2 + x * y2))) / (b + g)
+    r = ((alpha ** 2 - beta ** 2) * g + 2 * alpha * beta * b) / y2
+    z = r + 1j * (x + r)
+    y = g + 1j * b
     return np.sqrt(z / y), np.sqrt(z * y)
 
 

@@ -55,6 +55,15 @@ def conductor(node) -> tuple[float, float, float]:
     return diameter, cables.CONDUCTIVITY_S_PER_M[node["material"]], number(node["resistance_factor"])
 
 
+def cladding_m(node) -> float | None:
+    """Cladding thickness [m] of a copper-clad steel conductor from its composite conductivity in
+    percent of IACS (``conductivity_iacs``); None for a solid conductor."""
+    if "conductivity_iacs" not in node:
+        return None
+    return cables.cladding_thickness_m(length_m(node["diameter"]),
+                                       number(node["conductivity_iacs"]) / 100 * cables.IACS_S_PER_M)
+
+
 def geometry_rlgc(entry, frequency_hz) -> cables.Rlgc:
     """Per-metre constants of an entry from its stated geometry."""
     geometry = entry["geometry"]
@@ -64,7 +73,8 @@ def geometry_rlgc(entry, frequency_hz) -> cables.Rlgc:
         d, sigma_i, k_i = conductor(geometry["inner"])
         outer = geometry["outer"]
         return cables.coax_rlgc(frequency_hz, d, length_m(dielectric["diameter"]), eps_r, tan_delta, sigma_i,
-                                cables.CONDUCTIVITY_S_PER_M[outer["material"]], k_i, number(outer["resistance_factor"]))
+                                cables.CONDUCTIVITY_S_PER_M[outer["material"]], k_i, number(outer["resistance_factor"]),
+                                inner_cladding_m=cladding_m(geometry["inner"]))
     d, sigma, k = conductor(geometry["wires"])
     return cables.two_wire_rlgc(frequency_hz, d, length_m(geometry["spacing"]), eps_r, tan_delta, sigma, k)
 

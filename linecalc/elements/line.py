@@ -31,8 +31,11 @@ class Line(ElementDefaults):
         return line_abcd_scaled(z0, gamma, self.length_m)
 
     def port_z0_ohm(self, frequency_hz):
-        z0, _ = self.cable.constants(frequency_hz)
-        return z0, z0
+        """The cable's nominal (real) impedance at both ends: what an SWR meter made for that line
+        reads against. It is finite for every passive load and the same for +jX and -jX; the
+        complex Z0 of the lossy line stays inside the chain matrix."""
+        z = np.full(np.shape(frequency_hz), complex(self.cable.z0_nominal_ohm))
+        return z, z
 
     def matched_loss_db(self, frequency_hz):
         """Matched loss [dB]: 20 log10(e) alpha l."""

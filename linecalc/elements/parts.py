@@ -1,5 +1,6 @@
-"""Lumped elements of the feed path: attenuating parts (connectors, a choke's differential
-path), a balun or transformer, an in-line meter, and a resistor, inductor and capacitor part."""
+"""Small elements of the feed path: a connector (a series resistance), a choke (its differential
+path a short line section), a current balun or transformer (its winding a short line section, then
+an ideal transformer), an in-line meter, and a resistor, inductor and capacitor part."""
 from __future__ import annotations
 
 from dataclasses import dataclass
@@ -9,23 +10,58 @@ import numpy as np
 from linecalc.elements.base import PartDefaults
 from linecalc.physics.cascade import cascade_abcd, swr_from_rho, wave_powers
 from linecalc.physics.lumped import part_impedance_ohm, series_abcd, shunt_abcd
+from linecalc.physics.small_parts import connector_abcd, winding_abcd
 from linecalc.physics.twoports import attenuator_abcd, terminated_loss_db, transformer_abcd
 
 
+# Defaults of the line-section models, documented in the README's feed table and in io/feed_file.py.
+# A choke wound from coax: 1.5 m of solid-PE coax (VF 0.66), some eight turns on a 6 cm former or
+# a string of beads over that length (common practice). A current balun's winding: about 1 m of
+# line (ten bifilar turns on a toroid of some 6 cm, from memory), VF 0.7 for PTFE-insulated wire
+# (from memory).
+CHOKE_LENGTH_M = 1.5
+CHOKE_VELOCITY_FACTOR = 0.66
+BALUN_LENGTH_M = 1.0
+BALUN_VELOCITY_FACTOR = 0.7
+
+
 @dataclass(frozen=True)
-class Attenuating(PartDefaults):
-    """A connector, a choke's differential path or any matched loss: ``loss_db`` each, ``count`` of them.
+class Connector(PartDefaults):
+    """``count`` connectors that together lose ``count * loss_db`` at the reference impedance: a
+    resistance in series with the path (`physics.small_parts.connector_abcd`)."""
 
-    The loss is frequency independent and phase free, in the reference impedance.
-    """
-
-    kind: str
     label: str
     loss_db: float
     z_ref_ohm: float
     count: int = 1
-    common_mode_table: tuple = ()  # choke only: ((frequency_hz, |Z| ohm), ...) in increasing frequency
+    kind: str = "connector"
+
+    def abcd(self, frequency_hz):
+        return connector_abcd(self.loss_db * self.count, self.z_ref_ohm, frequency_hz)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z
+
+    def matched_loss_db(self, frequency_hz):
+        return terminated_loss_db(self.abcd(frequency_hz), self.z_ref_ohm)
+
+
+@dataclass(frozen=True)
+class Choke(PartDefaults):
+    """A common-mode (current) choke. Its differential path is a line section of the reference
+    impedance, ``length_m`` long at ``velocity_factor``, whose conductors lose ``loss_db`` matched
+    (`physics.small_parts.winding_abcd`); its common-mode impedance table serves the warning.
+    """
+
+    label: str
+    loss_db: float
+    z_ref_ohm: float
+    length_m: float = CHOKE_LENGTH_M
+    velocity_factor: float = CHOKE_VELOCITY_FACTOR
+    common_mode_table: tuple = ()  # ((frequency_hz, |Z| ohm), ...) in increasing frequency
     common_mode_threshold_ohm: float = 0.0
+    kind: str = "choke"
 
     def common_mode_ohm(self, frequency_hz):
         """Common-mode impedance magnitude [ohm] from the table, linear between its points; NaN outside it."""
@@ -45,22 +81,27 @@ class Attenuating(PartDefaults):
                 f"{', '.join(weak)}; it may not stop current on the outside of the coax there"]
 
     def abcd(self, frequency_hz):
-        return attenuator_abcd(self.loss_db * self.count, self.z_ref_ohm, frequency_hz)
+        return winding_abcd(frequency_hz, self.z_ref_ohm, self.velocity_factor, self.length_m, self.loss_db)
 
     def port_z0_ohm(self, frequency_hz):
         z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
         return z, z
 
     def matched_loss_db(self, frequency_hz):
-        return np.full(np.shape(frequency_hz), self.loss_db * self.count)
+        return np.full(np.shape(frequency_hz), self.loss_db)
 
 
 @dataclass(frozen=True)
 class Transformer(PartDefaults):
-    """A balun or transformer: impedance ratio n (output over input), insertion loss on its input side.
+    """A current balun or transformer of impedance ratio n (output over input): its winding, a
+    line section of the reference impedance whose conductors lose ``loss_db`` matched, then an
+    ideal transformer.
 
-    ``input_balanced`` and ``output_balanced`` say which sides are balanced (default: a balun,
-    unbalanced toward the radio, balanced toward the antenna).
+    This is the exact equivalent of a Guanella transformer of k identical lines of k times the
+    reference impedance, inputs in parallel and outputs in series (n = k^2: one line for 1:1, two
+    100-ohm lines for 4:1 in a 50-ohm station); for other ratios it is the same form, an
+    approximation. ``input_balanced`` and ``output_balanced`` say which sides are balanced
+    (default: a balun, unbalanced toward the radio, balanced toward the antenna).
     """
 
     label: str
@@ -69,10 +110,13 @@ class Transformer(PartDefaults):
     z_ref_ohm: float
     input_balanced: bool = False
     output_balanced: bool = True
+    length_m: float = BALUN_LENGTH_M
+    velocity_factor: float = BALUN_VELOCITY_FACTOR
     kind: str = "balun"
 
     def abcd(self, frequency_hz):
-        return cascade_abcd([attenuator_abcd(self.loss_db, self.z_ref_ohm, frequency_hz),
+        return cascade_abcd([winding_abcd(frequency_hz, self.z_ref_ohm, self.velocity_factor, self.length_m,
+                                          self.loss_db),
                              transformer_abcd(self.impedance_ratio, frequency_hz)])
 
     def port_z0_ohm(self, frequency_hz):

@@ -2,12 +2,15 @@
 
 Defaults, all documented in the README where the key is:
 - connector: ``loss`` 0.05 dB each, ``count`` 1 (common practice: a good coax connector at HF
-  and VHF loses a few hundredths of a dB).
-- choke: ``loss`` 0.05 dB differential-mode insertion loss (common practice for a ferrite or
-  coiled-coax current choke at HF); ``min_common_mode`` 500 ohm, the common-mode impedance
-  below which a band is flagged (common practice).
-- balun: ``loss`` 0.2 dB (common practice for a ferrite-core transformer balun at HF);
-  ``input: unbalanced``, ``output: balanced``.
+  and VHF loses a few hundredths of a dB); modelled as a series resistance.
+- choke: ``loss`` 0.05 dB differential-mode matched loss (common practice for a ferrite or
+  coiled-coax current choke at HF); ``length`` 1.5 m and ``velocity_factor`` 0.66 of the line
+  section that is its differential path (common practice: a coax-wound choke);
+  ``min_common_mode`` 500 ohm, the common-mode impedance below which a band is flagged (common
+  practice).
+- balun: ``loss`` 0.2 dB (common practice for a ferrite-core current balun at HF); ``length``
+  1 m and ``velocity_factor`` 0.7 of its winding (from memory); ``input: unbalanced``,
+  ``output: balanced``.
 - meter: ``impedance`` the radio's reference impedance.
 - series / shunt parts: ``inductor_q`` 100, ``capacitor_q`` 1000 (common practice), the
   resistor ideal.
@@ -23,8 +26,11 @@ import dataclasses
 
 import numpy as np
 
-from linecalc.physics.cables import CONDUCTIVITY_S_PER_M, cable_from_points, coax_from_geometry, two_wire_from_geometry
-from linecalc.elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.physics.cables import (CONDUCTIVITY_S_PER_M, IACS_S_PER_M, STEEL_CORE_CONDUCTIVITY_S_PER_M,
+                                     cable_from_points, cladding_thickness_m, coax_from_geometry,
+                                     two_wire_from_geometry)
+from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.elements.parts import BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR
 from linecalc.physics.matching import TunerParts
 from linecalc.io.yaml_schema import decibels, frequency_table, mapping, number, quantity, string
 from linecalc.io.units import UnitError, parse_impedance, parse_loss_db_per_m
@@ -40,6 +46,7 @@ CAPACITOR_Q = 1000.0
 LOSS_DB_PER_M = (1e-9, 1e3)
 Q_RANGE = (1.0, 1e6)
 MAX_CONNECTORS = 1000
+MAX_WINDING_M = 100.0  # a choke's or balun's line section; longer is a line element
 RATIO_RANGE = (1e-4, 1e4)
 TUNER_CAPACITANCE_F = (10e-12, 500e-12)
 TUNER_INDUCTANCE_H = (0.05e-6, 30e-6)
@@ -66,7 +73,8 @@ def _inline_cable(doc, ctx, label):
         mapping(doc, ctx, required=_POINTS_KEYS, optional=("kind", "geometry") + common)
     elif geometry == "coax":
         mapping(doc, ctx, required=("geometry",) + _COAX_KEYS,
-                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor") + common)
+                 optional=("inner_material", "outer_material", "inner_factor", "outer_factor",
+                           "inner_conductivity_iacs") + common)
     elif geometry == "two-wire":
         mapping(doc, ctx, required=("geometry",) + _TWO_WIRE_KEYS,
                  optional=("permittivity", "velocity_factor", "loss_tangent", "material", "conductor_factor") + common)
@@ -116,10 +124,19 @@ def _inline_cable(doc, ctx, label):
         big_d = quantity(doc, "dielectric_diameter", ctx, "m")
         if not big_d > d:
             raise ctx.child(doc, "dielectric_diameter").error("must be larger than the inner diameter")
+        cladding = None
+        if "inner_conductivity_iacs" in doc:
+            if material("inner_material") != "copper-clad steel":
+                raise ctx.child(doc, "inner_conductivity_iacs").error(
+                    "inner_conductivity_iacs belongs to inner_material: copper-clad steel")
+            low = STEEL_CORE_CONDUCTIVITY_S_PER_M / IACS_S_PER_M * 100
+            iacs = number(doc, "inner_conductivity_iacs", ctx, low=low, high=100)
+            cladding = cladding_thickness_m(d, iacs / 100 * IACS_S_PER_M)
         return _rated(coax_from_geometry(cable_id, description, d, big_d,
                                          number(doc, "permittivity", ctx, low=1, low_open=False), tangent(),
                                          material("inner_material"), material("outer_material"),
-                                         factor("inner_factor"), factor("outer_factor"), max_voltage), max_power)
+                                         factor("inner_factor"), factor("outer_factor"), max_voltage, cladding),
+                      max_power)
     d = quantity(doc, "wire_diameter", ctx, "m")
     spacing = quantity(doc, "spacing", ctx, "m")
     if not spacing > d:
@@ -182,13 +199,12 @@ def _connector(doc, ctx, index, z_ref_ohm):
     count = doc.get("count", 1)
     if isinstance(count, bool) or not isinstance(count, int) or not 1 <= count <= MAX_CONNECTORS:
         raise ctx.child(doc, "count").error(f"count is a whole number from 1 to {MAX_CONNECTORS}, got {count!r}")
-    return Attenuating("connector", _label(doc, ctx, "connector", index), _loss(doc, ctx, CONNECTOR_LOSS_DB),
-                       z_ref_ohm, count)
+    return Connector(_label(doc, ctx, "connector", index), _loss(doc, ctx, CONNECTOR_LOSS_DB), z_ref_ohm, count)
 
 
 def _choke(doc, ctx, index, z_ref_ohm):
     doc = doc or {}
-    mapping(doc, ctx, optional=("loss", "common_mode", "min_common_mode", "label"))
+    mapping(doc, ctx, optional=("loss", "length", "velocity_factor", "common_mode", "min_common_mode", "label"))
     table = ()
     if "common_mode" in doc:
         def read(value, where):
@@ -201,8 +217,20 @@ def _choke(doc, ctx, index, z_ref_ohm):
         table = tuple(zip(f.tolist(), z))
     threshold = (quantity(doc, "min_common_mode", ctx, "ohm", bare_unit="ohm") if "min_common_mode" in doc
                  else CHOKE_MIN_COMMON_MODE_OHM)
-    return Attenuating("choke", _label(doc, ctx, "choke", index), _loss(doc, ctx, CHOKE_LOSS_DB), z_ref_ohm,
-                       common_mode_table=table, common_mode_threshold_ohm=threshold)
+    length, velocity_factor = _winding(doc, ctx, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR)
+    return Choke(_label(doc, ctx, "choke", index), _loss(doc, ctx, CHOKE_LOSS_DB), z_ref_ohm, length, velocity_factor,
+                 common_mode_table=table, common_mode_threshold_ohm=threshold)
+
+
+def _winding(doc, ctx, default_length_m, default_velocity_factor):
+    """The length [m] and velocity factor of a choke's or balun's line section."""
+    length = quantity(doc, "length", ctx, "m") if "length" in doc else default_length_m
+    if not length <= MAX_WINDING_M:
+        raise ctx.child(doc, "length").error(f"a choke or balun winding is at most {MAX_WINDING_M:g} m, "
+                                             f"got {doc['length']!r}; a longer one is a line")
+    velocity_factor = (number(doc, "velocity_factor", ctx, low=0, high=1) if "velocity_factor" in doc
+                       else default_velocity_factor)
+    return length, velocity_factor
 
 
 def _ratio(doc, ctx):
@@ -233,9 +261,11 @@ def _side(doc, ctx, key, default):
 
 
 def _balun(doc, ctx, index, z_ref_ohm):
-    mapping(doc, ctx, required=("ratio",), optional=("loss", "input", "output", "label"))
+    mapping(doc, ctx, required=("ratio",), optional=("loss", "length", "velocity_factor", "input", "output", "label"))
+    length, velocity_factor = _winding(doc, ctx, BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR)
     return Transformer(_label(doc, ctx, "balun", index), _ratio(doc, ctx), _loss(doc, ctx, BALUN_LOSS_DB), z_ref_ohm,
-                       _side(doc, ctx, "input", "unbalanced"), _side(doc, ctx, "output", "balanced"))
+                       _side(doc, ctx, "input", "unbalanced"), _side(doc, ctx, "output", "balanced"),
+                       length, velocity_factor)
 
 
 def _meter(doc, ctx, index, z_ref_ohm):

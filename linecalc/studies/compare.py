@@ -21,7 +21,7 @@ import numpy as np
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.json_values import finite_or_none
 from linecalc.studies.station import CompareSpec, Station
-from linecalc.elements import Attenuating, Line, Transformer
+from linecalc.elements import Choke, Line, Transformer
 from linecalc.physics.twoports import closed_form_line_loss_db
 from linecalc.errors import InputError
 
@@ -161,7 +161,7 @@ def _with_cable(feed, index, cable, z_ref_ohm):
         return tuple(feed)
     if before is not None and before.kind == "tuner":
         feed[index - 1] = dataclasses.replace(before, output_balanced=False)
-    feed.insert(index + 1, Attenuating("choke", "choke after " + old.label, INSERTED_CHOKE_LOSS_DB, z_ref_ohm))
+    feed.insert(index + 1, Choke("choke after " + old.label, INSERTED_CHOKE_LOSS_DB, z_ref_ohm))
     return tuple(feed)
 
 

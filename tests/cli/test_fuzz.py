@@ -31,7 +31,7 @@ from linecalc import cli
 from linecalc.physics import bands
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import BudgetError
-from linecalc.elements import Attenuating, Line, LumpedPart, Meter, Stub, Transformer, Tuner
+from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner
 from linecalc.physics.cables import CONDUCTIVITY_S_PER_M
 from linecalc.physics.exposure import MODE_DUTY_FACTORS
 from linecalc.io.cable_library import load_library
@@ -472,10 +472,14 @@ def far_outside_any_station(station):
             checks += [_outside(element.length_m, 1e-6, 1e6), _outside(cable.z0_nominal_ohm, 1e-3, 1e6),
                        _outside(cable.velocity_factor, 1e-3, 1),
                        _outside([v for v in cable.geometry.values() if isinstance(v, float)], 1e-9, 1e9)]
-        elif isinstance(element, Attenuating):
+        elif isinstance(element, Connector):
             checks.append(_outside(element.loss_db * element.count, 0, 1e4))
+        elif isinstance(element, Choke):
+            checks += [_outside(element.loss_db, 0, 1e4), _outside(element.length_m, 1e-6, 1e6),
+                       _outside(element.velocity_factor, 1e-3, 1)]
         elif isinstance(element, Transformer):
-            checks += [_outside(element.impedance_ratio, 1e-6, 1e6), _outside(element.loss_db, 0, 1e4)]
+            checks += [_outside(element.impedance_ratio, 1e-6, 1e6), _outside(element.loss_db, 0, 1e4),
+                       _outside(element.length_m, 1e-6, 1e6), _outside(element.velocity_factor, 1e-3, 1)]
         elif isinstance(element, Meter):
             checks.append(_outside(element.impedance_ohm, 1e-6, 1e7))
         elif isinstance(element, LumpedPart):

@@ -22,6 +22,7 @@ from linecalc.physics import cables
 from linecalc import elements
 from linecalc.physics import loads
 from linecalc.physics import matching as tuner
+from linecalc.physics import small_parts
 from linecalc.io.station_file import parse_station_text
 
 DB_PER_NEPER = 20 * np.log10(np.e)
@@ -185,9 +186,10 @@ RATIOS = [1.0, 4.0, 9.0, 49.0, 2.5]
 @pytest.mark.parametrize("ratio", RATIOS)
 def test_ideal_transformer_chain_matrix_is_pozar_table_4_1(ratio):
     # Pozar, 4th ed., Table 4.1: an ideal N:1 transformer has ABCD [[N, 0], [0, 1/N]] and makes
-    # Z_in = N^2 Z_L. An n:1 balun (output over input impedance n) has N = 1/sqrt(n).
+    # Z_in = N^2 Z_L. An n:1 balun (output over input impedance n) has N = 1/sqrt(n). No winding
+    # (length 0, loss 0): the transformer alone.
     turns = 1 / np.sqrt(ratio)
-    abcd = elements.Transformer("b", ratio, 0.0, 50.0).abcd(HF_HZ)
+    abcd = elements.Transformer("b", ratio, 0.0, 50.0, length_m=0.0).abcd(HF_HZ)
     np.testing.assert_allclose(abcd, np.broadcast_to([[turns, 0], [0, 1 / turns]], abcd.shape), rtol=1e-15, atol=0)
     # scikit-rf: the same two-port in S at ports 50 and 50 n is a perfect matched thru
     s = s_from_abcd(abcd, [50.0, 50.0 * ratio])
@@ -198,7 +200,7 @@ def test_ideal_transformer_chain_matrix_is_pozar_table_4_1(ratio):
 @pytest.mark.parametrize("ratio", RATIOS)
 def test_ideal_balun_turns_z_into_z_over_n(ratio, z_load, make_station):
     # An ideal n:1 transformer presents Z_L / n at its input (Pozar, 4th ed., Table 4.1).
-    balun = elements.Transformer("b", ratio, 0.0, 50.0)
+    balun = elements.Transformer("b", ratio, 0.0, 50.0, length_m=0.0)
     result = budget.solve_budget(make_station([balun], HF_HZ, z_load))
     np.testing.assert_allclose(result.z_radio_ohm, z_load / ratio, rtol=1e-12)
     np.testing.assert_allclose(result.elements[0].dissipated_w, 0.0, atol=1e-9 * 100.0)
@@ -206,45 +208,80 @@ def test_ideal_balun_turns_z_into_z_over_n(ratio, z_load, make_station):
     # so rho at the input against 50 ohm is the load's rho against 50 n ohm (Pozar, 4th ed.,
     # section 12.1 with S11 = S22 = 0, S21 = S12 = 1), and Z_in = 50 (1 + rho)/(1 - rho) = Z_L / n
     s = s_from_abcd(balun.abcd(HF_HZ), [50.0, 50.0 * ratio])
-    np.testing.assert_allclose(input_impedance_from_s(s, z_load, [50.0, 50.0 * ratio]), z_load / ratio, rtol=1e-9)
+    np.testing.assert_allclose(input_impedance_from_s(s, z_load, [50.0, 50.0 * ratio]), z_load / ratio, rtol=1e-12)
 
 
 @pytest.mark.parametrize("loss_db", [0.1, 0.2, 1.0, 3.0])
 @pytest.mark.parametrize("ratio", RATIOS)
-def test_lossy_balun_in_its_own_impedances_loses_its_loss(ratio, loss_db, make_station):
-    # Terminated in its own impedances (50 ohm in, 50 n out) it is matched and loses L dB:
-    # S11 = S22 = 0, |S21| = 10^(-L/20) (Pozar, 4th ed., section 4.3, scikit-rf's conversion).
+def test_lossy_balun_between_its_reference_impedances_loses_its_loss(ratio, loss_db, make_station):
+    # The loss key is the matched loss at the reference impedance: terminated in 50 n ohm and fed
+    # from 50 ohm, the balun turns loss_db of the power into heat, at every frequency (README, feed
+    # table). Rounding only: rtol 1e-9.
     balun = elements.Transformer("b", ratio, loss_db, 50.0)
-    s = s_from_abcd(balun.abcd(HF_HZ), [50.0, 50.0 * ratio])
-    np.testing.assert_allclose(np.abs(s[:, 0, 0]), 0.0, atol=1e-12)
-    np.testing.assert_allclose(np.abs(s[:, 1, 1]), 0.0, atol=1e-12)
-    np.testing.assert_allclose(-20 * np.log10(np.abs(s[:, 1, 0])), loss_db, rtol=1e-12)
     result = budget.solve_budget(make_station([balun], HF_HZ, 50.0 * ratio))
-    np.testing.assert_allclose(result.elements[0].loss_db, loss_db, rtol=1e-12)
-    np.testing.assert_allclose(result.total_loss_db, loss_db, rtol=1e-12)
-    np.testing.assert_allclose(result.mismatch_loss_db, 0.0, atol=1e-12)
-    np.testing.assert_allclose(result.elements[0].swr_in, 1.0, rtol=1e-9)
-    np.testing.assert_allclose(result.elements[0].swr_out, 1.0, rtol=1e-9)
-    np.testing.assert_allclose(result.power_antenna_w, 100.0 * 10 ** (-loss_db / 10), rtol=1e-12)
+    np.testing.assert_allclose(result.elements[0].loss_db, loss_db, rtol=1e-9)
+    np.testing.assert_allclose(result.total_loss_db, loss_db, rtol=1e-9)
+    np.testing.assert_allclose(result.elements[0].matched_loss_db, loss_db, rtol=1e-9)
+
+
+def _line_abcd_by_hand(z0, gamma, length_m):
+    """[[cosh gl, Z0 sinh gl], [sinh gl / Z0, cosh gl]] (Pozar, 4th ed., Table 4.1)."""
+    gl = gamma * length_m
+    return np.array([[np.cosh(gl), z0 * np.sinh(gl)], [np.sinh(gl) / z0, np.cosh(gl)]])
+
+
+@pytest.mark.parametrize("z_load", [200 + 0j, 2000 + 1500j, 30 - 80j], ids=str)
+def test_four_to_one_current_balun_is_its_two_line_guanella_equivalent(z_load, make_station):
+    # Guanella (1944); Sevick, Transmission Line Transformers, 4th ed., chapter 2: a 4:1 current
+    # balun in a 50-ohm station is two identical 100-ohm lines, inputs in parallel, outputs in
+    # series. Solved here by circuit arithmetic: with the same current I through both outputs and
+    # the same input voltage, each output carries Z_L I / 2 (A v1 + B I = A v2 + B I), and
+    # V_in = A Z_L I / 2 + B I, I_in = 2 (C Z_L I / 2 + D I). Each line is the balun's winding scaled
+    # to 100 ohm: the same length and VF, per-metre series impedance twice the 50-ohm winding's
+    # (the same R' per unit of impedance, so the same gamma) and shunt admittance half.
+    f = np.array([3.6e6, 14.2e6])
+    balun = elements.Transformer("b", 4.0, 0.3, 50.0)
+    r50 = small_parts.winding_resistance_ohm_per_m(f, 50.0, balun.velocity_factor, balun.length_m, 0.3)
+    omega = 2 * np.pi * f
+    v = balun.velocity_factor * SPEED_OF_LIGHT
+    z_series = 2 * (r50 + 1j * omega * (50.0 / v + r50 / omega))
+    y_shunt = 1j * omega / (50.0 * v) / 2
+    z0_line, gamma = np.sqrt(z_series / y_shunt), np.sqrt(z_series * y_shunt)
+    (a, b), (c, d) = _line_abcd_by_hand(z0_line, gamma, balun.length_m)
+    current = 1.0
+    v_in = a * z_load * current / 2 + b * current
+    i_in = 2 * (c * z_load * current / 2 + d * current)
+    expected_z_in = v_in / i_in
+    expected_loss_db = 10 * np.log10((v_in * np.conj(i_in)).real / (z_load.real * abs(current) ** 2))
+    result = budget.solve_budget(make_station([balun], f, z_load))
+    # two exact computations of the same circuit: rtol 1e-9
+    np.testing.assert_allclose(result.z_radio_ohm, expected_z_in, rtol=1e-9)
+    np.testing.assert_allclose(result.elements[0].loss_db, expected_loss_db, rtol=1e-9)
 
 
 # --- connector -------------------------------------------------------------------------------
 
 @pytest.mark.parametrize("count", [1, 2, 5])
 @pytest.mark.parametrize("loss_db", [0.0, 0.05, 0.3])
-def test_connector_is_a_matched_attenuator_of_count_times_loss(count, loss_db, make_station):
-    # A matched attenuator: S11 = S22 = 0, S21 = -loss dB, no phase (Pozar, 4th ed., section 4.3,
-    # Table 4.2 for the ABCD to S conversion), compared with scikit-rf's own attenuator.
-    connector = elements.Attenuating("connector", "c", loss_db, 50.0, count)
-    s = s_from_abcd(connector.abcd(HF_HZ))
-    np.testing.assert_allclose(np.abs(s[:, 0, 0]), 0.0, atol=1e-12)
-    np.testing.assert_allclose(s[:, 1, 0], 10 ** (-count * loss_db / 20), rtol=1e-12)  # real: no phase
-    reference = skrf.media.DefinedGammaZ0(skrf_frequency(HF_HZ), z0=50.0).attenuator(-count * loss_db, db=True)
-    np.testing.assert_allclose(s, reference.s, rtol=0, atol=1e-12)
+def test_connectors_lose_count_times_loss_at_the_reference(count, loss_db, make_station):
+    connector = elements.Connector("c", loss_db, 50.0, count)
     result = budget.solve_budget(make_station([connector], HF_HZ, 50.0))
     np.testing.assert_allclose(result.elements[0].loss_db, count * loss_db, rtol=1e-12, atol=1e-12)
-    np.testing.assert_allclose(result.elements[0].matched_loss_db, count * loss_db, rtol=1e-12)
+    np.testing.assert_allclose(result.elements[0].matched_loss_db, count * loss_db, rtol=1e-12, atol=1e-12)
     np.testing.assert_allclose(result.power_antenna_w, 100.0 * 10 ** (-count * loss_db / 10), rtol=1e-12)
+
+
+@pytest.mark.parametrize("z_load, expected_db", [
+    # Worked by hand: 0.05 dB at 50 ohm is a series R = 50 (10^0.005 - 1) = 50 x 0.01157945 =
+    # 0.578973 ohm. The same current flows in R and the load, so the loss is 10 log10((Re Z + R)/Re Z):
+    (5.0, 0.475842),       # 10 log10(5.578974 / 5) = 10 log10(1.1157948) = 10 x 0.0475842 dB
+    (2000.0, 0.00125704),  # 10 log10(2000.578973 / 2000) = 10 log10(1.00028949) = 10 x 1.25704e-4 dB
+])
+def test_connector_at_low_and_high_impedance_is_its_series_resistance(z_load, expected_db, make_station):
+    # Pozar, 4th ed., section 4.4 (series impedance; power Re(V I*)); six figures written out: rtol 2e-5.
+    connector = elements.Connector("c", 0.05, 50.0)
+    result = budget.solve_budget(make_station([connector], HF_HZ, z_load))
+    np.testing.assert_allclose(result.elements[0].loss_db, expected_db, rtol=2e-5)
 
 
 STATION_HEAD = """\
@@ -261,7 +298,10 @@ def test_connector_defaults_from_the_station_file():
     # README: connector loss 0.05 dB each (common practice), count 1.
     station = parse_station_text(STATION_HEAD.format(antenna="50+j0") + "  - connector:\n  - connector: {count: 3}\n")
     result = budget.solve_budget(station)
-    np.testing.assert_allclose([e.loss_db[0] for e in result.elements], [0.05, 0.15], rtol=1e-12)
+    # The three together are R3 = 50 (10^0.015 - 1) = 1.757109 ohm in series with the 50-ohm load;
+    # the first, R1 = 0.578973 ohm, carries the same current: 10 log10(52.336082 / 51.757109)
+    # = 10 log10(1.0111864) = 0.048312 dB (worked by hand; six figures: rtol 2e-5).
+    np.testing.assert_allclose([e.loss_db[0] for e in result.elements], [0.048312, 0.15], rtol=2e-5)
 
 
 # --- series and shunt lumped parts -----------------------------------------------------------
@@ -442,6 +482,45 @@ def test_choke_differential_loss():
     np.testing.assert_allclose(result.elements[0].loss_db, 0.1, rtol=1e-12)
     np.testing.assert_allclose(result.power_antenna_w, 100.0 * 10 ** -0.01, rtol=1e-12)
     assert result.warnings == ()  # no common-mode table: nothing to judge
+
+
+def _skrf_section_abcd(frequency_hz, r_ohm_per_m, z0_ohm, velocity_factor, length_m):
+    """ABCD of a line section of R' (and its internal inductance R'/omega), nominal Z0 and VF, built
+    with scikit-rf's distributed-circuit media (L' = Z0/v + R'/omega, C' = 1/(Z0 v), G' = 0)."""
+    v = velocity_factor * SPEED_OF_LIGHT
+    omega = 2 * np.pi * frequency_hz
+    media = skrf.media.DistributedCircuit(skrf_frequency(frequency_hz), z0_port=50.0, C=1 / (z0_ohm * v),
+                                          L=z0_ohm / v + r_ohm_per_m / omega, R=r_ohm_per_m, G=0.0)
+    return media.line(length_m, "m").a
+
+
+def _loss_db_into(abcd, z_load):
+    """10 log10(Re(V_in I_in*) / Re(Z_L)) with I_out = 1 (Pozar, 4th ed., section 4.4)."""
+    v_in = abcd[..., 0, 0] * z_load + abcd[..., 0, 1]
+    i_in = abcd[..., 1, 0] * z_load + abcd[..., 1, 1]
+    return 10 * np.log10((v_in * np.conj(i_in)).real / z_load.real)
+
+
+@pytest.mark.parametrize("frequency_hz", [3.6e6, 14.2e6])
+def test_choke_at_a_high_impedance_is_its_explicit_line_section(frequency_hz, make_station):
+    # The choke's differential path is 1.5 m of 50-ohm coax at VF 0.66 (README defaults, common
+    # practice) whose conductors lose 0.05 dB between 50-ohm terminations. Independently: R' found
+    # with scipy's brentq on scikit-rf's distributed-circuit line so that it loses 0.05 dB into
+    # 50 ohm, then that line's loss into 2000+j1500 ohm (Pozar, 4th ed., sections 2.1 and 4.4).
+    import scipy.optimize
+
+    f = np.array([frequency_hz])
+    choke = elements.Choke("c", 0.05, 50.0)
+
+    def excess_db(r):
+        return _loss_db_into(_skrf_section_abcd(f, r, 50.0, 0.66, 1.5), 50.0)[0] - 0.05
+
+    r = scipy.optimize.brentq(excess_db, 0.0, 10.0, xtol=1e-14, rtol=1e-12)
+    z_load = 2000 + 1500j
+    expected = _loss_db_into(_skrf_section_abcd(f, r, 50.0, 0.66, 1.5), z_load)
+    result = budget.solve_budget(make_station([choke], f, z_load, power_w=1500.0))
+    # two solutions of the same line to the root finder's tolerance: rtol 1e-7
+    np.testing.assert_allclose(result.elements[0].loss_db, expected, rtol=1e-7)
 
 
 @pytest.mark.parametrize("threshold, weak", [
@@ -651,8 +730,10 @@ def random_element(draw):
     kind = draw(st.sampled_from(["line", "connector", "choke", "balun", "meter", "series", "shunt", "stub", "tuner"]))
     if kind == "line":
         return elements.Line(draw(random_cable()), draw(_log_uniform(0.1, 100.0)), "line")
-    if kind in ("connector", "choke"):
-        return elements.Attenuating(kind, kind, draw(st.floats(0.0, 1.0)), 50.0, draw(st.integers(1, 4)))
+    if kind == "connector":
+        return elements.Connector(kind, draw(st.floats(0.0, 1.0)), 50.0, draw(st.integers(1, 4)))
+    if kind == "choke":
+        return elements.Choke(kind, draw(st.floats(0.0, 1.0)), 50.0)
     if kind == "balun":
         return elements.Transformer("balun", draw(_log_uniform(0.25, 49.0)), draw(st.floats(0.0, 1.0)), 50.0)
     if kind == "meter":
@@ -697,3 +778,11 @@ def test_property_energy_balance_and_passivity(data, frequency_hz, make_station)
         if element.kind == "tuner":
             heat = sum(v for key, v in element.readings.items() if key.endswith("_dissipated_w"))
             np.testing.assert_allclose(heat, element.dissipated_w, rtol=1e-9, atol=1e-9 * power_w)
+
+
+def test_choke_and_balun_winding_keys_and_defaults():
+    # README feed table: choke length 1.5 m, VF 0.66 (common practice); balun 1 m, VF 0.7 (from memory).
+    text = (STATION_HEAD.format(antenna="50+j0") + "  - choke:\n  - choke: {length: 3 m, velocity_factor: 0.8}\n"
+            '  - balun: {ratio: "4:1"}\n  - balun: {ratio: "1:4", length: 40 cm, velocity_factor: 0.75}\n')
+    feed = parse_station_text(text).feed
+    assert [(e.length_m, e.velocity_factor) for e in feed] == [(1.5, 0.66), (3.0, 0.8), (1.0, 0.7), (0.4, 0.75)]

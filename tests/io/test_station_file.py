@@ -515,3 +515,36 @@ def test_errors_of_the_whole_document_name_a_line_and_no_key(old, new, fragment,
 def test_parse_station_text_names_its_file_or_a_placeholder():
     with pytest.raises(StationError, match=r"^<station>:3: .*\(at radio\.power\)$"):
         parse_station_text(GOOD.replace("100 W", "100 m"))
+
+
+CLAD_STATION = """\
+name: Clad inner
+radio: {{power: 100 W}}
+frequencies: [0.5 MHz, 30 MHz]
+antenna: {{impedance: {{0.5 MHz: 75, 30 MHz: 75}}}}
+feed:
+  - line:
+      length: 30 m
+      cable: {{geometry: coax, inner_diameter: 1.02 mm, dielectric_diameter: 4.57 mm, permittivity: 1.42, loss_tangent: 0.0001,
+              inner_material: {material}{extra}}}
+"""
+
+
+def test_inline_copper_clad_steel_inner_by_its_cladding():
+    # README (Cables, materials): inner_conductivity_iacs models a copper-clad steel inner by its
+    # cladding over steel; without it the inner is copper. At 30 MHz the 0.089 mm cladding is 7.5
+    # skin depths and the steel is not seen (the two agree to 0.1 %); at 0.5 MHz it is one skin
+    # depth (93 um in copper) and the loss rises above copper's (the layered model against the
+    # exact two-layer solution: tests/physics/test_cables.py).
+    def loss(material, extra):
+        line = parse_station_text(CLAD_STATION.format(material=material, extra=extra)).feed[0]
+        return line.matched_loss_db(np.array([0.5e6, 30e6]))
+    copper = loss("copper", "")
+    assert np.array_equal(loss("copper-clad steel", ""), copper)
+    clad = loss("copper-clad steel", ", inner_conductivity_iacs: 40")
+    assert clad[1] == pytest.approx(copper[1], rel=1e-3)
+    assert clad[0] > copper[0]
+    with pytest.raises(StationError, match="belongs to inner_material: copper-clad steel"):
+        loss("copper", ", inner_conductivity_iacs: 40")
+    with pytest.raises(StationError, match="inner_conductivity_iacs"):
+        loss("copper-clad steel", ", inner_conductivity_iacs: 5")

@@ -60,7 +60,7 @@ def solve(frequency_hz, feed, labels=None):
 
 
 COAX_FEED = (elements.Meter("meter", 50.0), elements.Tuner("tuner", "T", PARTS, 50.0),
-             elements.Line(COAX, 25.0, "coax"), elements.Attenuating("connector", "connectors", 0.05, 50.0, 2))
+             elements.Line(COAX, 25.0, "coax"), elements.Connector("connectors", 0.05, 50.0, 2))
 LADDER_FEED = (elements.Tuner("tuner", "T", PARTS, 50.0, output_balanced=True),
                elements.Line(LADDER, 18.0, "window line"))
 
