@@ -18,6 +18,15 @@ def _swr_text(swr):
     return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
 
 
+def _db(value):
+    """A figure in dB to two decimals; a rounding residue below zero prints as 0.00, not -0.00."""
+    text = f"{value:.2f}"
+    return "0.00" if text == "-0.00" else text
+
+
+HOLDS_TEXT = {"forward": "forward power held by the radio", "net": "net power held by the radio"}
+
+
 def _tuner_cells(element, i):
     """A tuner's setting on one row: arrangement, part values and whether it matched."""
     readings = element.readings
@@ -40,7 +49,8 @@ def budget_table(result: BudgetResult) -> str:
     tuners = [e for e in result.elements if e.kind == "tuner"]
     meters = [e for e in result.elements if e.kind == "meter"]
     swr_only = result.total_loss_db_range is not None
-    headers = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB", "total loss dB"]
+    headers = ["row", "MHz", "SWR antenna", "SWR radio", "radio fwd / refl W", "radio mismatch dB",
+               "matched loss dB", "mismatch loss dB", "total loss dB"]
     if tuners:
         headers.append("tuner loss dB")
     headers += ["antenna W", "path heat W"]
@@ -49,19 +59,21 @@ def budget_table(result: BudgetResult) -> str:
     body = []
     for i, label in enumerate(result.labels):
         row = [label, f"{result.frequency_hz[i] / 1e6:.4g}", _swr_text(result.swr_antenna[i]), _swr_text(result.swr_radio[i]),
-               f"{result.matched_loss_db[i]:.2f}", f"{result.mismatch_loss_db[i]:.2f}", f"{result.total_loss_db[i]:.2f}"]
+               f"{result.radio_forward_w[i]:.1f} / {result.radio_reflected_w[i]:.1f}",
+               _db(result.radio_mismatch_loss_db[i]),
+               _db(result.matched_loss_db[i]), _db(result.mismatch_loss_db[i]), _db(result.total_loss_db[i])]
         if tuners:
-            row.append(f"{sum(e.loss_db[i] for e in tuners):.2f}")
+            row.append(_db(sum(e.loss_db[i] for e in tuners)))
         row += [f"{result.power_antenna_w[i]:.1f}", f"{result.power_radio_w[i] - result.power_antenna_w[i]:.1f}"]
         if swr_only:
             low, high = result.total_loss_db_range[i]
-            row.append(f"{low:.2f} to {high:.2f}")
+            row.append(f"{_db(low)} to {_db(high)}")
         body.append(row)
-    lines = [f"{result.station}: {result.radio_power_w:g} W from the radio, "
+    lines = [f"{result.station}: {result.radio_power_w:g} W {HOLDS_TEXT[result.radio_holds]}, "
              f"SWR at the radio against {result.reference_impedance_ohm:g} ohm", ""]
     lines.append(tabulate(body, headers=headers, disable_numparse=True, stralign="right"))
     if result.elements:
-        element_rows = [[label] + [f"{e.loss_db[i]:.2f} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
+        element_rows = [[label] + [f"{_db(e.loss_db[i])} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
                         for i, label in enumerate(result.labels)]
         lines += ["", "Loss and heat in each element, radio to antenna:",
                   tabulate(element_rows, headers=["row", *(f"{e.kind}: {e.label}" for e in result.elements)],
