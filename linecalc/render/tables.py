@@ -28,19 +28,28 @@ HOLDS_TEXT = {"forward": "forward power held by the radio", "net": "net power he
 
 
 def _tuner_cells(element, i):
-    """A tuner's setting on one row: arrangement, part values and whether it matched."""
+    """A tuner's setting on one row: arrangement, part values and whether it matched. For an
+    SWR-only antenna each part shows its range over the phases of the unknown reflection."""
     readings = element.readings
     values = []
     for key, array in readings.items():
-        value = array[i]
-        if key.endswith(("_pf", "_uh")) and not np.isfinite(value):
-            continue  # a part that this row's arrangement leaves out
-        if key.endswith("_pf"):
-            values.append(f"{key[:-3].replace('_', ' ')} {value:.0f} pF")
-        elif key.endswith("_uh"):
-            values.append(f"{key[:-3].replace('_', ' ')} {value:.2f} uH")
-    matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
+        for suffix, unit, digits in (("_pf", "pF", 0), ("_uh", "uH", 2)):
+            if key.endswith(suffix) and np.isfinite(array[i]):
+                values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.{digits}f} {unit}")
+            elif key.endswith(suffix + "_least") and np.isfinite(array[i]):
+                most = readings[key[:-len("_least")] + "_most"][i]
+                values.append(f"{key[:-len(suffix + '_least')].replace('_', ' ')} {array[i]:.{digits}f} to "
+                              f"{most:.{digits}f} {unit}")
+    if "matched_share" in readings:
+        share = readings["matched_share"][i]
+        matched = "matched" if share == 1 else f"matched at {100 * share:.0f} % of phases"
+    else:
+        matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
     return [matched, str(readings["arrangement"][i]), ", ".join(values)]
+
+
+TUNER_PHASE_NOTE = ("The antenna's phase is unknown, so the tuner's settings are given as their range over every "
+                    "phase: where you set it depends on the real impedance at the feedpoint.")
 
 
 def budget_table(result: BudgetResult) -> str:
@@ -99,7 +108,7 @@ def budget_table(result: BudgetResult) -> str:
         lines += ["", "The measured sweep moved to the antenna; a reflection error at the instrument is multiplied by:",
                   tabulate(rows, headers=["row", "error multiplier"], disable_numparse=True)]
     if swr_only:
-        lines += ["", SWR_ONLY_NOTE]
+        lines += ["", SWR_ONLY_NOTE] + ([TUNER_PHASE_NOTE] if tuners else [])
     lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
     return "\n".join(lines) + "\n"
 
@@ -231,7 +240,11 @@ def sweep_table(sweeps) -> str:
         headers = ["SWR at", "lowest SWR at MHz", f"{_mhz(sweep.frequency_hz[0])} MHz", f"{_mhz(sweep.frequency_hz[-1])} MHz",
                    *(f"kHz within {limit:g}:1" for limit in st.swr_limits)]
         lines += [f"{sweep.label}, {sweep.frequency_hz.size} points edge to edge:",
-                  tabulate(body, headers=headers, disable_numparse=True, stralign="right"), ""]
+                  tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+        if sweep.held_tuners:
+            lines.append(f"Tuner {', '.join(sweep.held_tuners)} set once at {_mhz(sweep.tuner_set_hz)} MHz and held "
+                         "across the band (adjust: once): the radio's row is what it sees as you tune away.")
+        lines.append("")
     if lines:
         lines.append("+ the region reaches the band edge: the bandwidth is at least this")
     return "\n".join(lines) + "\n"

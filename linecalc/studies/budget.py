@@ -132,11 +132,13 @@ def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
     return antenna.rho_magnitude_at(frequency_hz)[None, :] * phase[:, None]
 
 
-def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
+def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm, set_at=None):
     """Every element's chain matrix; a tuner is first designed for the load it sees.
 
     Tuners are designed from the antenna toward the radio, each for the impedance looking into
-    the path beyond it. Returns the list and a dict element index -> tuner design.
+    the path beyond it. With ``set_at`` (a band sweep), a tuner that adjusts once keeps at each
+    row the setting designed at the row ``set_at`` names. Returns the list and a dict element
+    index -> tuner design.
     """
     abcd_list = [None if element.adapts_to_load else element.scaled_abcd(frequency_hz) for element in feed]
     designs = {}
@@ -147,21 +149,35 @@ def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
                 raise BudgetError(f"tuner {feed[k].label} sees a load with no resistance (a short, an open or a "
                                   "pure reactance through a lossless path): there is nothing to match", "antenna")
             designs[k] = feed[k].design(frequency_hz, z_load)
+            if set_at is not None and feed[k].held:
+                designs[k] = feed[k].hold(designs[k], set_at)
             abcd_list[k] = designs[k].abcd
     return abcd_list, designs
 
 
-def _tuner_warnings(feed, designs, labels, swr_in_by_element):
-    """A warning for every row where a tuner cannot match, naming the band and the SWR it sees."""
+def _tuner_warnings(feed, designs, labels, swr_in_by_element, set_at=None):
+    """A warning for every row where a tuner cannot match, naming the band and the SWR it sees.
+
+    A tuner held across a sweep is judged only at the rows where it was set (elsewhere its
+    mismatch is the band's SWR curve at the radio, not a failure). For an SWR-only antenna the
+    tuner is designed at every phase of the unknown reflection: the warning says at how many it
+    fails and the worst SWR it leaves at its input there.
+    """
     warnings = []
+    rows = np.arange(len(labels))
     for k, design in designs.items():
-        matched = np.all(design.matched, axis=0) if design.matched.ndim > 1 else design.matched
+        judged = rows == set_at if set_at is not None and feed[k].held else np.ones(len(labels), dtype=bool)
         load_swr = swr_from_rho(np.abs(rho_from_impedance(design.z_load_ohm, design.r0_ohm)))
-        if load_swr.ndim > 1:
-            load_swr = load_swr.max(axis=0)
-        failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
-                  f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
-                  for i, label in enumerate(labels) if not matched[i]]
+        if design.matched.ndim > 1:  # phases of an SWR-only antenna lead
+            failed_phases = (~design.matched).sum(axis=0)
+            worst_in = np.where(design.matched, 1.0, design.swr_in).max(axis=0)
+            failed = [f"{label} (at {failed_phases[i]} of {design.matched.shape[0]} phases of the antenna's unknown "
+                      f"reflection, SWR up to {load_swr.max(axis=0)[i]:.1f} at its output and {worst_in[i]:.2f} at "
+                      "its input there)" for i, label in enumerate(labels) if judged[i] and failed_phases[i]]
+        else:
+            failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
+                      f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
+                      for i, label in enumerate(labels) if judged[i] and not design.matched[i]]
         if failed:
             warnings.append(f"tuner {feed[k].label} cannot match on {', '.join(failed)}; "
                             "solved at its closest setting")
@@ -326,7 +342,7 @@ def solve_budget(station: Station) -> BudgetResult:
         rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
     else:
         rho_antenna = _antenna_rho(station.antenna, f, z_ref)
-    abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref)
+    abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref, station.tuner_set_at)
     try:
         solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
     except NoNetPowerError as exc:
@@ -379,7 +395,7 @@ def solve_budget(station: Station) -> BudgetResult:
         radio_holds=station.radio_holds,
         warnings=tuple(_radio_warnings(station, drive, swr_radio, swr_only)
                        + _range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
-                       + _tuner_warnings(station.feed, designs, station.labels, swr_in)
+                       + _tuner_warnings(station.feed, designs, station.labels, swr_in, station.tuner_set_at)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings
                        + safety.gain_warnings(station.antenna_gain_dbi) + measured_warnings),
         measured=measured_facts,

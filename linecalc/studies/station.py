@@ -57,6 +57,9 @@ class Station:
     radio_holds: str = "forward"
     radio_foldback_swr: float | None = None
     radio_max_power_w: float | None = None
+    # per row, the index of the row at whose frequency a tuner that adjusts once is set (a band
+    # sweep: the point nearest the band's row frequency); None: every row is set at its own
+    tuner_set_at: np.ndarray | None = field(default=None, compare=False)
     band_edges_hz: tuple = ()  # per row: (low, high) of its band [Hz], or None for an explicit frequency
     source_file: str = "<station>"
     key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
