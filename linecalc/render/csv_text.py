@@ -34,6 +34,18 @@ def budget_csv(result: BudgetResult) -> str:
     return buffer.getvalue()
 
 
+def budgets_csv(results) -> str:
+    """Several stations' budgets as one table: a ``station`` column, then each station's lines
+    under their own header (the element columns differ from station to station)."""
+    out = []
+    for result in results:
+        lines = budget_csv(result).splitlines()
+        name = io.StringIO()
+        csv.writer(name, lineterminator="").writerow([result.station])
+        out += ["station," + lines[0]] + [f"{name.getvalue()},{line}" for line in lines[1:]]
+    return "\n".join(out) + "\n"
+
+
 def compare_csv(comparison) -> str:
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")

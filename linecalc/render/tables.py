@@ -187,15 +187,22 @@ def cables_table(listing) -> str:
 
 def compare_table(comparison) -> str:
     """Alternatives as columns (watts at the antenna and total loss), rows per band; winner and margin."""
-    key = [f"  [{k + 1}] {name}" for k, name in enumerate(comparison.names)]
+    changes = comparison.changes or ((),) * len(comparison.names)
+    key = [f"  [{k + 1}] {name}" + (f" ({'; '.join(c)})" if c else "") for k, (name, c) in
+           enumerate(zip(comparison.names, changes))]
     headers = ["row", *(f"[{k + 1}] W / dB" for k in range(len(comparison.names))), "winner", "margin dB"]
     body = []
     for i, label in enumerate(comparison.labels):
-        cells = [f"{comparison.power_antenna_w[k, i]:.1f} / {comparison.total_loss_db[k, i]:.2f}"
+        cells = [f"{comparison.power_antenna_w[k, i]:.1f} / {_db(comparison.total_loss_db[k, i])}"
                  for k in range(len(comparison.names))]
-        body.append([label, *cells, f"[{comparison.winner[i] + 1}]", f"{comparison.margin_db[i]:.2f}"])
+        body.append([label, *cells, f"[{comparison.winner[i] + 1}]", _db(comparison.margin_db[i])])
     lines = [f"{comparison.station}: watts at the antenna / total loss for each alternative", "", *key, "",
              tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+    swr_rows = [[label, *(_swr_text(r.swr_radio[i]) for r in comparison.results)]
+                for i, label in enumerate(comparison.labels)]
+    lines += ["", "SWR at the radio for each alternative (above 2:1 many solid-state radios cut their power):",
+              tabulate(swr_rows, headers=["row", *(f"[{k + 1}]" for k in range(len(comparison.names)))],
+                       disable_numparse=True, stralign="right")]
     study = comparison.line_study
     if study is not None:
         headers = ["row", *(f"{length:g} m" for length in study.length_m)]
@@ -266,7 +273,8 @@ def advice_table(result, top) -> str:
     headers = ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
     lines = [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
              f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
-             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} windows "
+             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} "
+             f"{'window' if len(advice.windows) == 1 else 'windows'} "
              f"({limit:.2f} m in all) meet the conditions.",
              ""]
     if advice.windows:
@@ -280,7 +288,11 @@ def advice_table(result, top) -> str:
     else:
         lines.append("No length in the range lets the tuner match on every band: widen the range, change the "
                      "tuner's ranges or drop a band.")
-    lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."]
+    if result.feeder_kind == "balanced":
+        lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."]
+    else:
+        lines += ["", "Caution: at high SWR a coax feeder can carry more voltage than its rating; check it with "
+                      "linecalc safety."]
     return "\n".join(lines) + "\n"
 
 

@@ -300,7 +300,9 @@ def test_compare_table_keys_alternatives_and_names_the_winner(comparison):
     text = tables.compare_table(comparison)
     assert text.splitlines()[0].startswith(comparison.station)
     for k, name in enumerate(comparison.names):
-        assert f"  [{k + 1}] {name}" in text.splitlines()
+        # each key line is the name, then what the alternative added, moved or dropped in brackets
+        assert any(line == f"  [{k + 1}] {name}" or line.startswith(f"  [{k + 1}] {name} (")
+                   for line in text.splitlines()), name
     headers, rows = parse_table(text, "winner")
     assert headers == ["row", "[1] W / dB", "[2] W / dB", "[3] W / dB", "winner", "margin dB"]
     assert [row[0] for row in rows] == list(comparison.labels)
@@ -311,9 +313,11 @@ def test_compare_table_keys_alternatives_and_names_the_winner(comparison):
             assert shown(losses[k], comparison.total_loss_db[k, i], 2)
         best = max(range(3), key=lambda k: float(watts[k]))
         assert row[4] == f"[{best + 1}]"
-        # the margin: how much less the winner loses than the runner-up (rounding of three cells)
-        runner_up = sorted(float(v) for v in losses)[1]
-        assert abs(float(row[5]) - (runner_up - float(losses[best]))) <= 0.015
+        # the margin: the winner's watts at the antenna over the runner-up's in dB (definition of
+        # the decibel); the watts cells are rounded to 0.05 W, the margin to 0.005 dB
+        runner_up = sorted((float(v) for v in watts), reverse=True)[1]
+        expected = 10 * math.log10(float(watts[best]) / runner_up)
+        assert abs(float(row[5]) - expected) <= 0.005 + 10 * math.log10(1 + 0.1 / runner_up)
 
 
 def test_compare_table_line_study_shows_exact_and_closed_form(data_path):
