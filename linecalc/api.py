@@ -48,14 +48,16 @@ def solve_budget(station: Station, *, sweep_points: int | None = None) -> budget
     with errors_located(station):
         result = budget.solve_budget(station)
         if sweep_points is not None:
-            result = _with_sweeps(result, solve_band_sweeps(station, sweep_points)[1])
+            result = _with_sweeps(result, *solve_band_sweeps(station, sweep_points))
     return result
 
 
-def _with_sweeps(result, sweeps):
+def _with_sweeps(result, swept, sweeps):
+    """The budget with its band sweeps, and the warnings of the sweep (a tuner that cannot match
+    at some of its points) after its own."""
     import dataclasses
 
-    return dataclasses.replace(result, sweeps=tuple(sweeps))
+    return dataclasses.replace(result, sweeps=tuple(sweeps), warnings=result.warnings + swept.warnings)
 
 
 def solve_safety(station: Station) -> budget.BudgetResult:

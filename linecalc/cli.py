@@ -160,9 +160,11 @@ def _run_budget(args) -> int:
         documents = [r.to_dict() for r in results]
         sys.stdout.write(json_text.to_json(documents[0] if len(paths) == 1 else documents))
     else:
-        render = {"table": tables.budget_table, "csv": csv_text.budget_csv}[args.format]
-        sys.stdout.write("\n".join(render(r) + (tables.sweep_table(r.sweeps) if r.sweeps and args.format == "table"
-                                                 else "") for r in results))
+        if args.format == "csv":
+            sys.stdout.write(csv_text.budgets_csv(results) if len(paths) > 1 else csv_text.budget_csv(results[0]))
+        else:
+            sys.stdout.write("\n".join(tables.budget_table(r) + (tables.sweep_table(r.sweeps) if r.sweeps else "")
+                                       for r in results))
     for result in results:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
@@ -233,11 +235,11 @@ def _run_feedpoint(args) -> int:
     result = api.solve_feedpoint(station)
     render = {"table": tables.feedpoint_table, "json": lambda r: json_text.to_json(r.to_dict()),
               "csv": csv_text.feedpoint_csv}[args.format]
-    sys.stdout.write(render(result))
-    if args.output:
+    if args.output:  # first, so that a refused output (exit status 2) leaves stdout empty
         _write_s1p(args.output, result.frequency_hz, result.sweep.z_antenna_ohm, station.reference_impedance_ohm,
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
                    api.input_files(station))
+    sys.stdout.write(render(result))
     if result.sweep.active.any():
         print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(result.sweep.active.sum())} points: "
               "the described path does not match the measurement there", file=sys.stderr)

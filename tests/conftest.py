@@ -107,19 +107,23 @@ def line_of():
 @pytest.fixture(scope="session")
 def make_station():
     """``make_station(feed, frequency_hz, antenna, *, power_w=100, z_ref_ohm=50, labels=None,
-    name="test station")``: ``antenna`` is an impedance [ohm] (a scalar or one per frequency,
-    made into an impedance table at the rows) or a load object (`ImpedanceTable`, `SwrTable`);
-    the labels default to the frequencies in MHz."""
+    name="test station", holds="net", foldback_swr=None, max_power_w=None)``: ``antenna`` is an
+    impedance [ohm] (a scalar or one per frequency, made into an impedance table at the rows) or
+    a load object (`ImpedanceTable`, `SwrTable`); the labels default to the frequencies in MHz.
+    The radio holds its net power by default here (unlike a station file, whose radio holds its
+    forward power): most tests check the path for a known net power into it."""
     from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable
     from linecalc.studies.station import Station
 
-    def make(feed, frequency_hz, antenna, *, power_w=100.0, z_ref_ohm=50.0, labels=None, name="test station"):
+    def make(feed, frequency_hz, antenna, *, power_w=100.0, z_ref_ohm=50.0, labels=None, name="test station",
+             holds="net", foldback_swr=None, max_power_w=None):
         f = np.atleast_1d(np.asarray(frequency_hz, dtype=float))
         if not isinstance(antenna, (ImpedanceTable, SwrTable, MeasuredAntenna)):
             antenna = ImpedanceTable(f, np.array(np.broadcast_to(np.asarray(antenna, dtype=complex), f.shape)))
         return Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref_ohm,
                        labels=tuple(labels) if labels is not None else tuple(f"{x / 1e6:g} MHz" for x in f),
-                       frequency_hz=f, antenna=antenna, feed=tuple(feed))
+                       frequency_hz=f, antenna=antenna, feed=tuple(feed), radio_holds=holds,
+                       radio_foldback_swr=foldback_swr, radio_max_power_w=max_power_w)
 
     return make
 

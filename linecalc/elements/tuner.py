@@ -7,7 +7,7 @@ import numpy as np
 
 from linecalc.elements.base import PartDefaults
 from linecalc.physics.matching import (BUILTIN_MAX_SWR, TunerParts, TunerSolution, component_dissipation_w,
-                                       design_builtin_tuner, design_l_network, design_t_network)
+                                       design_builtin_tuner, design_l_network, design_t_network, held_setting)
 
 
 @dataclass(frozen=True)
@@ -17,7 +17,10 @@ class Tuner(PartDefaults):
     chain matrix: the budget calls ``design`` with the load, then uses the design's ``abcd``.
 
     ``network`` is ``"L"`` (least-loss L arrangement), ``"T"`` (high-pass T) or ``"builtin"`` (a
-    radio's built-in L network that tunes only loads up to ``max_swr``).
+    radio's built-in L network that tunes only loads up to ``max_swr``). ``adjust`` is
+    ``"once"`` (set at a row's frequency and held across a sweep of its band, as a manual tuner
+    is used), ``"automatic"`` (retuned at every frequency, as an automatic tuner does) or None,
+    the network's default: automatic for ``builtin``, once for ``L`` and ``T``.
     """
 
     label: str
@@ -29,7 +32,17 @@ class Tuner(PartDefaults):
     max_capacitor_voltage_v: float | None = None  # peak (crest) rating of every capacitor
     max_inductor_current_a: float | None = None  # RMS rating of every inductor
     kind: str = "tuner"
+    adjust: str | None = None
     adapts_to_load = True
+
+    @property
+    def held(self) -> bool:
+        """Whether its setting is held across a sweep (``adjust`` once, or the default of L and T)."""
+        return self.adjust == "once" or (self.adjust is None and self.network != "builtin")
+
+    def hold(self, design: TunerSolution, set_at) -> TunerSolution:
+        """``design`` held at the settings of the frequencies ``set_at`` names (see `held_setting`)."""
+        return held_setting(design, set_at, self.parts)
 
     def abcd(self, frequency_hz):
         raise TypeError(f"tuner {self.label}: its chain matrix depends on its load; call design()")
@@ -55,12 +68,24 @@ class Tuner(PartDefaults):
         """Part values [pF, uH], heat in each part [W], whether it matched and its SWR at the input."""
         heat = component_dissipation_w(design, voltage_v, current_a)
         values = {}
+        phases = design.matched.ndim > 1  # an SWR-only antenna: one setting per phase of its reflection
         for part in design.parts:
             scale, unit = (1e12, "pf") if part.kind == "capacitor" else (1e6, "uh")
             if np.all(np.isnan(part.value)):
                 continue
-            values[f"{part.name}_{unit}"] = phase_mean(part.value * scale)
+            if phases:  # the setting depends on the unknown phase: its range over the phases
+                values[f"{part.name}_{unit}_least"] = np.nanmin(np.where(np.isnan(part.value), np.inf, part.value),
+                                                                axis=0) * scale
+                values[f"{part.name}_{unit}_most"] = np.nanmax(np.where(np.isnan(part.value), -np.inf, part.value),
+                                                               axis=0) * scale
+            else:
+                values[f"{part.name}_{unit}"] = part.value * scale
             values[f"{part.name}_dissipated_w"] = phase_mean(heat[part.name])
-        return {"matched": np.all(design.matched, axis=0) if design.matched.ndim > 1 else design.matched,
-                "arrangement": design.arrangement if design.arrangement.ndim == 1 else design.arrangement[0],
-                **values}
+        if phases:
+            values["matched_share"] = design.matched.mean(axis=0)
+        arrangement = design.arrangement
+        if phases:  # one arrangement where every phase uses it, else say that it varies
+            same = np.all(arrangement == arrangement[:1], axis=0)
+            arrangement = np.where(same, arrangement[0], "depends on the phase")
+        return {"matched": np.all(design.matched, axis=0) if phases else design.matched,
+                "arrangement": arrangement, **values}

@@ -173,8 +173,9 @@ def cable(cable_id: str) -> Cable | None:
     LibraryError
         When its file is malformed.
     """
+    wanted = cable_id.lower()  # ids are lower case; RG-213 names rg-213
     for path, entry in _parsed_entries():
-        if entry["id"] == cable_id:
+        if entry["id"] == wanted:
             return _build(path, entry)
     return None
 

@@ -17,7 +17,10 @@ Defaults, all documented in the README where the key is:
 - tuner: ``network`` T; ``capacitance`` 10 pF to 500 pF and ``inductance`` 0.05 uH to 30 uH for
   every capacitor and inductor (common practice for a wide-range manual tuner, from memory);
   ``inductor_q`` 100, ``capacitor_q`` 1000; ``max_swr`` 3 for ``network: builtin`` (common
-  practice: built-in tuners match up to about 3:1); ``output`` unbalanced; optional ratings
+  practice: built-in tuners match up to about 3:1), whose parts span 5 pF to 3000 pF and
+  0.05 uH to 10 uH (typical of the switched parts of a radio's built-in L network, from memory;
+  enough to match 3:1 from 160 m up); ``adjust`` once for L and T (set at the row's frequency,
+  held across a sweep), automatic for builtin; ``output`` unbalanced; optional ratings
   ``capacitor_voltage_rating`` (peak volts) and ``inductor_current_rating`` (RMS amperes).
 """
 from __future__ import annotations
@@ -51,6 +54,9 @@ RATIO_RANGE = (1e-4, 1e4)
 TUNER_CAPACITANCE_F = (10e-12, 500e-12)
 TUNER_INDUCTANCE_H = (0.05e-6, 30e-6)
 TUNER_MAX_SWR = 3.0
+BUILTIN_CAPACITANCE_F = (5e-12, 3000e-12)
+BUILTIN_INDUCTANCE_H = (0.05e-6, 10e-6)
+TUNER_ADJUST = {"L": "once", "T": "once", "builtin": "automatic"}
 
 
 _POINTS_KEYS = ("impedance", "velocity_factor", "loss")
@@ -331,21 +337,26 @@ def _range(doc, ctx, key, unit, default):
 def _tuner(doc, ctx, index, z_ref_ohm):
     doc = doc or {}
     mapping(doc, ctx, optional=("network", "capacitance", "inductance", "inductor_q", "capacitor_q", "max_swr",
-                                "output", "capacitor_voltage_rating", "inductor_current_rating", "label"))
+                                "output", "capacitor_voltage_rating", "inductor_current_rating", "adjust",
+                                "label"))
     network = doc.get("network", "T")
     if network not in ("L", "T", "builtin"):
         raise ctx.child(doc, "network").error(f"network is L, T or builtin, got {network!r}")
     if "max_swr" in doc and network != "builtin":
         raise ctx.child(doc, "max_swr").error("max_swr belongs to network: builtin")
-    c_min, c_max = _range(doc, ctx, "capacitance", "F", TUNER_CAPACITANCE_F)
-    l_min, l_max = _range(doc, ctx, "inductance", "H", TUNER_INDUCTANCE_H)
+    builtin = network == "builtin"
+    c_min, c_max = _range(doc, ctx, "capacitance", "F", BUILTIN_CAPACITANCE_F if builtin else TUNER_CAPACITANCE_F)
+    l_min, l_max = _range(doc, ctx, "inductance", "H", BUILTIN_INDUCTANCE_H if builtin else TUNER_INDUCTANCE_H)
+    adjust = doc.get("adjust", TUNER_ADJUST[network])
+    if adjust not in ("once", "automatic"):
+        raise ctx.child(doc, "adjust").error(f"adjust is once or automatic, got {adjust!r}")
     parts = TunerParts(c_min, c_max, l_min, l_max, _q(doc, ctx, "inductor_q", INDUCTOR_Q),
                        _q(doc, ctx, "capacitor_q", CAPACITOR_Q))
     max_swr = number(doc, "max_swr", ctx, low=1, low_open=False) if "max_swr" in doc else TUNER_MAX_SWR
     voltage_rating = quantity(doc, "capacitor_voltage_rating", ctx, "V") if "capacitor_voltage_rating" in doc else None
     current_rating = quantity(doc, "inductor_current_rating", ctx, "A") if "inductor_current_rating" in doc else None
     return Tuner(_label(doc, ctx, "tuner", index), network, parts, z_ref_ohm, max_swr,
-                 _side(doc, ctx, "output", "unbalanced"), voltage_rating, current_rating)
+                 _side(doc, ctx, "output", "unbalanced"), voltage_rating, current_rating, adjust=adjust)
 
 
 # Element builders by key in the feed list; each takes (settings, context, index, z_ref_ohm).

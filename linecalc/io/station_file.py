@@ -25,6 +25,9 @@ from linecalc.io.units import UnitError, parse_impedance
 # a continuous carrier, always transmitting (the cautious exposure figure), a half-wave dipole.
 MODE = "carrier"
 TRANSMIT_FRACTION = 1.0
+# The radio's power control holds its forward power (a solid-state radio); no reflected-power
+# limit and no largest forward power unless the station gives them.
+RADIO_HOLDS = "forward"
 ANTENNA_GAIN_DBI = 2.15
 # Beyond these no antenna exists: refused, not warned about.
 GAIN_LIMITS_DBI = (-100.0, 100.0)
@@ -107,6 +110,27 @@ def _measuring_node(measured_at, feed, ctx):
         known = ", ".join(["radio"] + [e.label for e in feed if e.kind == "meter"])
         raise ctx.error(f"measured_at names the radio or a meter of the feed, got {measured_at!r}; known: {known}")
     return meters[0]
+
+
+def _radio_drive(radio, ctx, power_w):
+    """``holds`` (default `RADIO_HOLDS`), ``foldback_swr`` and ``max_power`` (None by default).
+
+    A radio that holds its forward power cannot hold more than it can make: a ``power`` above
+    ``max_power`` is refused.
+    """
+    holds = RADIO_HOLDS
+    if "holds" in radio:
+        holds = radio["holds"]
+        if holds not in ("forward", "net"):
+            raise ctx.child(radio, "holds").error(f"holds is forward or net, got {holds!r}")
+    foldback_swr = None
+    if "foldback_swr" in radio:
+        foldback_swr = number(radio, "foldback_swr", ctx, low=1, high=MAX_SWR)
+    max_power_w = quantity(radio, "max_power", ctx, "W") if "max_power" in radio else None
+    if holds == "forward" and max_power_w is not None and power_w > max_power_w:
+        raise ctx.child(radio, "power").error(f"power {power_w:g} W is above max_power {max_power_w:g} W: a radio "
+                                              "that holds its forward power cannot hold more than it makes")
+    return holds, foldback_swr, max_power_w
 
 
 def _mode(radio, ctx):
@@ -196,8 +220,10 @@ def station_from_document(doc, file="<station>") -> Station:
             optional=("region", "bands", "frequencies", "compare"))
     name = string(doc, "name", ctx)
     radio_ctx = ctx.child(doc, "radio")
-    radio = mapping(doc["radio"], radio_ctx, required=("power",), optional=("impedance", "mode", "transmit_fraction"))
+    radio = mapping(doc["radio"], radio_ctx, required=("power",),
+                    optional=("impedance", "mode", "transmit_fraction", "holds", "foldback_swr", "max_power"))
     power_w = quantity(radio, "power", radio_ctx, "W")
+    holds, foldback_swr, max_power_w = _radio_drive(radio, radio_ctx, power_w)
     z_ref = quantity(radio, "impedance", radio_ctx, "ohm", bare_unit="ohm") if "impedance" in radio else 50.0
     mode, duty = _mode(radio, radio_ctx)
     transmit_fraction = (number(radio, "transmit_fraction", radio_ctx, low=0, high=1) if "transmit_fraction" in radio
@@ -218,6 +244,7 @@ def station_from_document(doc, file="<station>") -> Station:
     station = Station(name=name, radio_power_w=power_w, reference_impedance_ohm=z_ref, labels=labels,
                       frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, mode=mode,
                       duty_factor=duty, transmit_fraction=transmit_fraction, antenna_gain_dbi=gain_dbi,
+                      radio_holds=holds, radio_foldback_swr=foldback_swr, radio_max_power_w=max_power_w,
                       band_edges_hz=band_edges, compare=spec,
                       source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,

@@ -206,6 +206,18 @@ def solve_path(abcd_list, rho_load, z_ref_load_ohm, radio_power_w) -> PathSoluti
                         voltage, current)
 
 
+def rescaled(solution: PathSolution, factor) -> PathSolution:
+    """The same path driven with ``factor`` times the power at every node (..., nf), factor > 0.
+
+    The path is linear: every phasor scales by sqrt(factor), every power and heat by factor;
+    losses in dB and the unscaled state stay as they are.
+    """
+    factor = np.asarray(factor, dtype=float)[..., None, :]
+    root = np.sqrt(factor)
+    return PathSolution(solution.voltage_v * root, solution.current_a * root, solution.power_w * factor,
+                        solution.dissipated_w * factor, solution.db_below_radio, solution.state_v, solution.state_i)
+
+
 def input_impedance(abcd_list, rho_load, z_ref_load_ohm):
     """Impedance looking into a cascade toward its load [ohm] (the load itself for an empty list).
 

@@ -523,6 +523,41 @@ def design_builtin_tuner(frequency_hz, z_load_ohm, r0_ohm, parts, network="L",
     return _solution(network, slots, values, f, z, r0_ohm, parts, shape, accepted)
 
 
+def held_setting(solution: TunerSolution, set_at, parts) -> TunerSolution:
+    """A setting held fixed: at every load point, the part values that ``solution`` chose at
+    the point ``set_at`` names, in circuit with this point's frequency and load.
+
+    Parameters
+    ----------
+    solution : TunerSolution
+        A design at every load point, shapes (..., nf).
+    set_at : array_like of int, shape (nf,)
+        For each frequency, the index (along the last axis) of the frequency whose setting it
+        keeps: a manual tuner set once at a band's centre and left there across the band.
+    parts : TunerParts
+        The Qs of the parts (their ranges are not consulted: the values are held).
+
+    Returns
+    -------
+    TunerSolution
+        Arrangement, parts and chain matrix of the held values at each point's frequency;
+        ``swr_in``, ``loss_db`` and ``matched`` (input SWR <= MATCHED_SWR) with each point's own
+        load. At the points where ``set_at`` names the point itself it equals ``solution``.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., sections 4.4 (chain matrices of series and shunt
+    elements) and 5.1 (lumped-element matching networks).
+    """
+    slots = tuple((p.name, p.connection, p.kind) for p in solution.parts)
+    shape = solution.z_load_ohm.shape
+    set_at = np.asarray(set_at, dtype=int)
+    values = np.stack([np.broadcast_to(p.value[..., set_at], shape).reshape(-1) for p in solution.parts])
+    frequency_hz = np.broadcast_to(solution.frequency_hz, shape).reshape(-1)
+    return _solution(solution.network, slots, values, frequency_hz, solution.z_load_ohm.reshape(-1),
+                     solution.r0_ohm, parts, shape, True)
+
+
 def component_dissipation_w(solution, voltage_in_v, current_in_a):
     """Heat in each part of a tuner setting, from the RMS phasors at its input node.
 

@@ -98,7 +98,7 @@ def _arrays(name, values, count):
     return values
 
 
-def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False):
+def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, tuner_set_hz=None, force=False):
     """SWR across each band, at the antenna and at the radio, one panel per band.
 
     Parameters
@@ -110,6 +110,8 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
     frequency_hz, swr_antenna, swr_radio : sequence of array_like
         Per band: frequencies [Hz] and the SWR at each end [1] (inf for a total reflection,
         which is not drawn).
+    tuner_set_hz : sequence of (float or None), optional
+        Per band, where a tuner held across the band was set [Hz] (a dotted vertical line), or None.
     force : bool
         Overwrite an existing file.
 
@@ -146,6 +148,9 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
             mhz = frequency_hz[n] / 1e6
             ax.plot(mhz, swr_antenna[n], color=_colour(0), linewidth=2, label="at the antenna")
             ax.plot(mhz, swr_radio[n], color=_colour(1), linewidth=2, linestyle="--", label="at the radio")
+            if tuner_set_hz is not None and tuner_set_hz[n] is not None:
+                ax.axvline(tuner_set_hz[n] / 1e6, color="black", linewidth=1, linestyle=":",
+                           label="tuner set here, then held")
             ax.set_yscale("log")
             ax.set_ylim(SWR_AXIS_BOTTOM, top)  # a little below 1 so that a matched curve shows
             ax.yaxis.set_major_locator(FixedLocator(ticks))
@@ -158,8 +163,10 @@ def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, force=False)
                 ax.set_ylabel("SWR [1]")
             if n >= count - columns:
                 ax.set_xlabel("frequency [MHz]")
-        handles, names = axes.flat[0].get_legend_handles_labels()
-        figure.legend(handles, names, loc="outside upper right", ncols=2)
+        legend = {}
+        for ax in axes.flat[:count]:
+            legend.update(zip(*reversed(ax.get_legend_handles_labels())))
+        figure.legend(list(legend.values()), list(legend), loc="outside upper right", ncols=len(legend))
         figure.suptitle("SWR across each band", x=0.02, ha="left")
         return _save(figure, path, force)
 
@@ -479,7 +486,8 @@ def draw(data, path, *, force=False):
     """
     try:
         if isinstance(data, figure_data.SwrCurves):
-            return plot_swr(path, data.labels, data.frequency_hz, data.swr_antenna, data.swr_radio, force=force)
+            return plot_swr(path, data.labels, data.frequency_hz, data.swr_antenna, data.swr_radio,
+                            tuner_set_hz=data.tuner_set_hz, force=force)
         if isinstance(data, figure_data.SmithPoints):
             return plot_smith(path, data.z_antenna_ohm, data.z_radio_ohm, data.z_ref_ohm, data.labels, force=force)
         if isinstance(data, figure_data.LineVoltage):

@@ -18,20 +18,38 @@ def _swr_text(swr):
     return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
 
 
+def _db(value):
+    """A figure in dB to two decimals; a rounding residue below zero prints as 0.00, not -0.00."""
+    text = f"{value:.2f}"
+    return "0.00" if text == "-0.00" else text
+
+
+HOLDS_TEXT = {"forward": "forward power held by the radio", "net": "net power held by the radio"}
+
+
 def _tuner_cells(element, i):
-    """A tuner's setting on one row: arrangement, part values and whether it matched."""
+    """A tuner's setting on one row: arrangement, part values and whether it matched. For an
+    SWR-only antenna each part shows its range over the phases of the unknown reflection."""
     readings = element.readings
     values = []
     for key, array in readings.items():
-        value = array[i]
-        if key.endswith(("_pf", "_uh")) and not np.isfinite(value):
-            continue  # a part that this row's arrangement leaves out
-        if key.endswith("_pf"):
-            values.append(f"{key[:-3].replace('_', ' ')} {value:.0f} pF")
-        elif key.endswith("_uh"):
-            values.append(f"{key[:-3].replace('_', ' ')} {value:.2f} uH")
-    matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
+        for suffix, unit, digits in (("_pf", "pF", 0), ("_uh", "uH", 2)):
+            if key.endswith(suffix) and np.isfinite(array[i]):
+                values.append(f"{key[:-3].replace('_', ' ')} {array[i]:.{digits}f} {unit}")
+            elif key.endswith(suffix + "_least") and np.isfinite(array[i]):
+                most = readings[key[:-len("_least")] + "_most"][i]
+                values.append(f"{key[:-len(suffix + '_least')].replace('_', ' ')} {array[i]:.{digits}f} to "
+                              f"{most:.{digits}f} {unit}")
+    if "matched_share" in readings:
+        share = readings["matched_share"][i]
+        matched = "matched" if share == 1 else f"matched at {100 * share:.0f} % of phases"
+    else:
+        matched = "matched" if readings["matched"][i] else "CANNOT MATCH"
     return [matched, str(readings["arrangement"][i]), ", ".join(values)]
+
+
+TUNER_PHASE_NOTE = ("The antenna's phase is unknown, so the tuner's settings are given as their range over every "
+                    "phase: where you set it depends on the real impedance at the feedpoint.")
 
 
 def budget_table(result: BudgetResult) -> str:
@@ -40,7 +58,8 @@ def budget_table(result: BudgetResult) -> str:
     tuners = [e for e in result.elements if e.kind == "tuner"]
     meters = [e for e in result.elements if e.kind == "meter"]
     swr_only = result.total_loss_db_range is not None
-    headers = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB", "total loss dB"]
+    headers = ["row", "MHz", "SWR antenna", "SWR radio", "radio fwd / refl W", "radio mismatch dB",
+               "matched loss dB", "mismatch loss dB", "total loss dB"]
     if tuners:
         headers.append("tuner loss dB")
     headers += ["antenna W", "path heat W"]
@@ -49,19 +68,21 @@ def budget_table(result: BudgetResult) -> str:
     body = []
     for i, label in enumerate(result.labels):
         row = [label, f"{result.frequency_hz[i] / 1e6:.4g}", _swr_text(result.swr_antenna[i]), _swr_text(result.swr_radio[i]),
-               f"{result.matched_loss_db[i]:.2f}", f"{result.mismatch_loss_db[i]:.2f}", f"{result.total_loss_db[i]:.2f}"]
+               f"{result.radio_forward_w[i]:.1f} / {result.radio_reflected_w[i]:.1f}",
+               _db(result.radio_mismatch_loss_db[i]),
+               _db(result.matched_loss_db[i]), _db(result.mismatch_loss_db[i]), _db(result.total_loss_db[i])]
         if tuners:
-            row.append(f"{sum(e.loss_db[i] for e in tuners):.2f}")
+            row.append(_db(sum(e.loss_db[i] for e in tuners)))
         row += [f"{result.power_antenna_w[i]:.1f}", f"{result.power_radio_w[i] - result.power_antenna_w[i]:.1f}"]
         if swr_only:
             low, high = result.total_loss_db_range[i]
-            row.append(f"{low:.2f} to {high:.2f}")
+            row.append(f"{_db(low)} to {_db(high)}")
         body.append(row)
-    lines = [f"{result.station}: {result.radio_power_w:g} W from the radio, "
+    lines = [f"{result.station}: {result.radio_power_w:g} W {HOLDS_TEXT[result.radio_holds]}, "
              f"SWR at the radio against {result.reference_impedance_ohm:g} ohm", ""]
     lines.append(tabulate(body, headers=headers, disable_numparse=True, stralign="right"))
     if result.elements:
-        element_rows = [[label] + [f"{e.loss_db[i]:.2f} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
+        element_rows = [[label] + [f"{_db(e.loss_db[i])} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
                         for i, label in enumerate(result.labels)]
         lines += ["", "Loss and heat in each element, radio to antenna:",
                   tabulate(element_rows, headers=["row", *(f"{e.kind}: {e.label}" for e in result.elements)],
@@ -87,7 +108,7 @@ def budget_table(result: BudgetResult) -> str:
         lines += ["", "The measured sweep moved to the antenna; a reflection error at the instrument is multiplied by:",
                   tabulate(rows, headers=["row", "error multiplier"], disable_numparse=True)]
     if swr_only:
-        lines += ["", SWR_ONLY_NOTE]
+        lines += ["", SWR_ONLY_NOTE] + ([TUNER_PHASE_NOTE] if tuners else [])
     lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
     return "\n".join(lines) + "\n"
 
@@ -166,15 +187,22 @@ def cables_table(listing) -> str:
 
 def compare_table(comparison) -> str:
     """Alternatives as columns (watts at the antenna and total loss), rows per band; winner and margin."""
-    key = [f"  [{k + 1}] {name}" for k, name in enumerate(comparison.names)]
+    changes = comparison.changes or ((),) * len(comparison.names)
+    key = [f"  [{k + 1}] {name}" + (f" ({'; '.join(c)})" if c else "") for k, (name, c) in
+           enumerate(zip(comparison.names, changes))]
     headers = ["row", *(f"[{k + 1}] W / dB" for k in range(len(comparison.names))), "winner", "margin dB"]
     body = []
     for i, label in enumerate(comparison.labels):
-        cells = [f"{comparison.power_antenna_w[k, i]:.1f} / {comparison.total_loss_db[k, i]:.2f}"
+        cells = [f"{comparison.power_antenna_w[k, i]:.1f} / {_db(comparison.total_loss_db[k, i])}"
                  for k in range(len(comparison.names))]
-        body.append([label, *cells, f"[{comparison.winner[i] + 1}]", f"{comparison.margin_db[i]:.2f}"])
+        body.append([label, *cells, f"[{comparison.winner[i] + 1}]", _db(comparison.margin_db[i])])
     lines = [f"{comparison.station}: watts at the antenna / total loss for each alternative", "", *key, "",
              tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+    swr_rows = [[label, *(_swr_text(r.swr_radio[i]) for r in comparison.results)]
+                for i, label in enumerate(comparison.labels)]
+    lines += ["", "SWR at the radio for each alternative (above 2:1 many solid-state radios cut their power):",
+              tabulate(swr_rows, headers=["row", *(f"[{k + 1}]" for k in range(len(comparison.names)))],
+                       disable_numparse=True, stralign="right")]
     study = comparison.line_study
     if study is not None:
         headers = ["row", *(f"{length:g} m" for length in study.length_m)]
@@ -219,7 +247,11 @@ def sweep_table(sweeps) -> str:
         headers = ["SWR at", "lowest SWR at MHz", f"{_mhz(sweep.frequency_hz[0])} MHz", f"{_mhz(sweep.frequency_hz[-1])} MHz",
                    *(f"kHz within {limit:g}:1" for limit in st.swr_limits)]
         lines += [f"{sweep.label}, {sweep.frequency_hz.size} points edge to edge:",
-                  tabulate(body, headers=headers, disable_numparse=True, stralign="right"), ""]
+                  tabulate(body, headers=headers, disable_numparse=True, stralign="right")]
+        if sweep.held_tuners:
+            lines.append(f"Tuner {', '.join(sweep.held_tuners)} set once at {_mhz(sweep.tuner_set_hz)} MHz and held "
+                         "across the band (adjust: once): the radio's row is what it sees as you tune away.")
+        lines.append("")
     if lines:
         lines.append("+ the region reaches the band edge: the bandwidth is at least this")
     return "\n".join(lines) + "\n"
@@ -241,7 +273,8 @@ def advice_table(result, top) -> str:
     headers = ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
     lines = [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
              f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
-             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} windows "
+             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} "
+             f"{'window' if len(advice.windows) == 1 else 'windows'} "
              f"({limit:.2f} m in all) meet the conditions.",
              ""]
     if advice.windows:
@@ -255,7 +288,11 @@ def advice_table(result, top) -> str:
     else:
         lines.append("No length in the range lets the tuner match on every band: widen the range, change the "
                      "tuner's ranges or drop a band.")
-    lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."]
+    if result.feeder_kind == "balanced":
+        lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."]
+    else:
+        lines += ["", "Caution: at high SWR a coax feeder can carry more voltage than its rating; check it with "
+                      "linecalc safety."]
     return "\n".join(lines) + "\n"
 
 

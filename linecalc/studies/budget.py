@@ -11,7 +11,9 @@ import numpy as np
 
 from linecalc.studies import stress as safety
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
-from linecalc.physics.cascade import NoNetPowerError, PathSolution, input_impedance, reflection, solve_path, swr_from_rho
+from linecalc.physics.cascade import (NoNetPowerError, PathSolution, input_impedance, reflection, rescaled, solve_path,
+                                      swr_from_rho)
+from linecalc.physics.source import RadioDrive, port_mismatch_loss_db, radio_drive
 from linecalc.physics.exposure import CAUTIONS
 from linecalc.studies.json_values import finite_or_none, json_value, pair
 from linecalc.studies.measured import PHASE_SAMPLES, measured_antenna_load
@@ -56,6 +58,10 @@ class BudgetResult:
     power_radio_w: np.ndarray
     power_antenna_w: np.ndarray
     elements: tuple[ElementBudget, ...]
+    radio_forward_w: np.ndarray | None = None
+    radio_reflected_w: np.ndarray | None = None
+    radio_mismatch_loss_db: np.ndarray | None = None
+    radio_holds: str = "net"
     total_loss_db_range: np.ndarray | None = None
     warnings: tuple[str, ...] = ()
     solution: PathSolution | None = field(default=None, repr=False)
@@ -84,6 +90,9 @@ class BudgetResult:
                 "total_loss_db": finite_or_none(self.total_loss_db[i]),
                 "power_radio_w": finite_or_none(self.power_radio_w[i]),
                 "power_antenna_w": finite_or_none(self.power_antenna_w[i]),
+                "radio_forward_w": finite_or_none(self.radio_forward_w[i]),
+                "radio_reflected_w": finite_or_none(self.radio_reflected_w[i]),
+                "radio_mismatch_loss_db": finite_or_none(self.radio_mismatch_loss_db[i]),
                 "elements": [
                     {"kind": e.kind, "label": e.label, "loss_db": finite_or_none(e.loss_db[i]),
                      "matched_loss_db": finite_or_none(e.matched_loss_db[i]),
@@ -106,6 +115,7 @@ class BudgetResult:
             "station": self.station,
             "reference_impedance_ohm": float(self.reference_impedance_ohm),
             "radio_power_w": float(self.radio_power_w),
+            "radio_holds": self.radio_holds,
             "mode": self.mode, "duty_factor": self.duty_factor, "transmit_fraction": self.transmit_fraction,
             "antenna_gain_dbi": self.antenna_gain_dbi,
             "rows": rows,
@@ -122,11 +132,13 @@ def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
     return antenna.rho_magnitude_at(frequency_hz)[None, :] * phase[:, None]
 
 
-def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
+def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm, set_at=None):
     """Every element's chain matrix; a tuner is first designed for the load it sees.
 
     Tuners are designed from the antenna toward the radio, each for the impedance looking into
-    the path beyond it. Returns the list and a dict element index -> tuner design.
+    the path beyond it. With ``set_at`` (a band sweep), a tuner that adjusts once keeps at each
+    row the setting designed at the row ``set_at`` names. Returns the list and a dict element
+    index -> tuner design.
     """
     abcd_list = [None if element.adapts_to_load else element.scaled_abcd(frequency_hz) for element in feed]
     designs = {}
@@ -137,21 +149,35 @@ def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm):
                 raise BudgetError(f"tuner {feed[k].label} sees a load with no resistance (a short, an open or a "
                                   "pure reactance through a lossless path): there is nothing to match", "antenna")
             designs[k] = feed[k].design(frequency_hz, z_load)
+            if set_at is not None and feed[k].held:
+                designs[k] = feed[k].hold(designs[k], set_at)
             abcd_list[k] = designs[k].abcd
     return abcd_list, designs
 
 
-def _tuner_warnings(feed, designs, labels, swr_in_by_element):
-    """A warning for every row where a tuner cannot match, naming the band and the SWR it sees."""
+def _tuner_warnings(feed, designs, labels, swr_in_by_element, set_at=None):
+    """A warning for every row where a tuner cannot match, naming the band and the SWR it sees.
+
+    A tuner held across a sweep is judged only at the rows where it was set (elsewhere its
+    mismatch is the band's SWR curve at the radio, not a failure). For an SWR-only antenna the
+    tuner is designed at every phase of the unknown reflection: the warning says at how many it
+    fails and the worst SWR it leaves at its input there.
+    """
     warnings = []
+    rows = np.arange(len(labels))
     for k, design in designs.items():
-        matched = np.all(design.matched, axis=0) if design.matched.ndim > 1 else design.matched
+        judged = rows == set_at if set_at is not None and feed[k].held else np.ones(len(labels), dtype=bool)
         load_swr = swr_from_rho(np.abs(rho_from_impedance(design.z_load_ohm, design.r0_ohm)))
-        if load_swr.ndim > 1:
-            load_swr = load_swr.max(axis=0)
-        failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
-                  f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
-                  for i, label in enumerate(labels) if not matched[i]]
+        if design.matched.ndim > 1:  # phases of an SWR-only antenna lead
+            failed_phases = (~design.matched).sum(axis=0)
+            worst_in = np.where(design.matched, 1.0, design.swr_in).max(axis=0)
+            failed = [f"{label} (at {failed_phases[i]} of {design.matched.shape[0]} phases of the antenna's unknown "
+                      f"reflection, SWR up to {load_swr.max(axis=0)[i]:.1f} at its output and {worst_in[i]:.2f} at "
+                      "its input there)" for i, label in enumerate(labels) if judged[i] and failed_phases[i]]
+        else:
+            failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
+                      f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
+                      for i, label in enumerate(labels) if judged[i] and not design.matched[i]]
         if failed:
             warnings.append(f"tuner {feed[k].label} cannot match on {', '.join(failed)}; "
                             "solved at its closest setting")
@@ -170,6 +196,34 @@ def _port_swr(solution, feed, frequency_hz, swr_only):
             rho = reflection(solution.state_v[..., node, :], solution.state_i[..., node, :], z0)
             out.append(swr_from_rho(np.abs(rho).mean(axis=0) if swr_only else rho))
     return swr_in, swr_out
+
+
+# Above this SWR at its port many solid-state radios begin to lower their power (common practice).
+RADIO_SWR_WARNING = 2.0
+
+
+def _radio_warnings(station, drive: RadioDrive, swr_radio, swr_only):
+    """A warning naming every row where the radio sees more than `RADIO_SWR_WARNING`, and every
+    row where its reflected-power limit or its largest forward power cuts its power."""
+    warnings = []
+    high = [f"{label} ({swr:.2f})" for label, swr in zip(station.labels, swr_radio) if swr > RADIO_SWR_WARNING]
+    if high:
+        warnings.append(f"the radio sees more than {RADIO_SWR_WARNING:g}:1 on {', '.join(high)}: many solid-state "
+                        "radios reduce their power near there (common practice); a tuner at the radio or a better "
+                        "match at the antenna keeps the watts")
+    phase_note = " (at some phases of the antenna's unknown reflection)" if swr_only else ""
+    limits = []
+    if station.radio_foldback_swr is not None:
+        limits.append((drive.folded, f"its reflected-power limit above {station.radio_foldback_swr:g}:1"))
+    if station.radio_max_power_w is not None:
+        limits.append((drive.limited, f"its largest forward power, {station.radio_max_power_w:g} W,"))
+    for mask, what in limits:
+        rows = mask.any(axis=0) if swr_only else mask
+        forward = drive.forward_w.min(axis=0) if swr_only else drive.forward_w
+        cut = [f"{label} ({w:.1f} W forward)" for label, w, hit in zip(station.labels, forward, rows) if hit]
+        if cut:
+            warnings.append(f"the radio's power is cut by {what} on {', '.join(cut)}{phase_note}")
+    return warnings
 
 
 def _range_warnings(feed, frequency_hz, labels):
@@ -214,10 +268,12 @@ def _element_notices(feed, frequency_hz, labels):
     return notices
 
 
-def _phase_mean_db(db_below_radio):
+def _phase_mean_db(db_below_radio, weight):
     """dB below the radio of the phase-mean power, from per-phase dB (a log-sum-exp, so that
-    powers far below the radio's average without underflowing)."""
-    level = -db_below_radio / 10  # log10 of P / P_radio, per phase
+    powers far below the radio's average without underflowing). ``weight`` (phases, nf) is each
+    phase's net power at the radio over its phase mean: a radio that holds its forward power
+    puts a different net power into each phase of the load."""
+    level = -db_below_radio / 10 + np.log10(weight)[:, None, :]  # log10 of P / mean P_radio, per phase
     top = level.max(axis=0)
     return -10 * (top + np.log10(np.mean(10 ** (level - top), axis=0)))
 
@@ -286,7 +342,7 @@ def solve_budget(station: Station) -> BudgetResult:
         rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
     else:
         rho_antenna = _antenna_rho(station.antenna, f, z_ref)
-    abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref)
+    abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref, station.tuner_set_at)
     try:
         solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
     except NoNetPowerError as exc:
@@ -294,11 +350,17 @@ def solve_budget(station: Station) -> BudgetResult:
         raise BudgetError(f"the path accepts no net power on {rows}: a lossless path into a pure reactance, "
                           "a short or an open cannot take the radio's power", "antenna") from None
 
-    swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
     rho_radio = reflection(solution.state_v[..., 0, :], solution.state_i[..., 0, :], z_ref)
+    drive = radio_drive(np.abs(rho_radio), station.radio_power_w, station.radio_holds, station.radio_foldback_swr,
+                        station.radio_max_power_w)
+    solution = rescaled(solution, drive.net_w / station.radio_power_w)
+    swr_in, swr_out = _port_swr(solution, station.feed, f, swr_only)
     power_w = _phase_mean(solution.power_w, swr_only)
     dissipated_w = _phase_mean(solution.dissipated_w, swr_only)
-    db_below_radio = _phase_mean_db(solution.db_below_radio) if swr_only else solution.db_below_radio
+    if swr_only:
+        db_below_radio = _phase_mean_db(solution.db_below_radio, drive.net_w / drive.net_w.mean(axis=0))
+    else:
+        db_below_radio = solution.db_below_radio
 
     elements, stress_warnings = _element_budgets(station, solution, designs, db_below_radio, dissipated_w,
                                                  swr_in, swr_out, swr_only)
@@ -308,6 +370,9 @@ def solve_budget(station: Station) -> BudgetResult:
     else:
         swr_antenna = swr_from_rho(np.abs(rho_antenna).mean(axis=0) if swr_only else rho_antenna)
     power_radio, power_antenna = power_w[0], power_w[-1]
+    forward_w, reflected_w = _phase_mean(drive.forward_w, swr_only), _phase_mean(drive.reflected_w, swr_only)
+    held_w = forward_w if station.radio_holds == "forward" else np.full(np.shape(f), station.radio_power_w)
+    swr_radio = swr_from_rho(np.abs(rho_radio).mean(axis=0)) if swr_only else swr_from_rho(rho_radio)
     total_loss_db = db_below_radio[-1]
     matched_loss_db = sum((e.matched_loss_db for e in elements), np.zeros_like(f))
     loss_range = None
@@ -319,14 +384,18 @@ def solve_budget(station: Station) -> BudgetResult:
         station=station.name, reference_impedance_ohm=z_ref, radio_power_w=station.radio_power_w,
         labels=tuple(station.labels), frequency_hz=f,
         swr_antenna=swr_antenna,
-        swr_radio=swr_from_rho(np.abs(rho_radio).mean(axis=0)) if swr_only else swr_from_rho(rho_radio),
+        swr_radio=swr_radio,
         z_antenna_ohm=None if swr_only else _impedance(solution, -1),
         z_radio_ohm=None if swr_only else _impedance(solution, 0),
         matched_loss_db=matched_loss_db, mismatch_loss_db=total_loss_db - matched_loss_db,
         total_loss_db=total_loss_db, power_radio_w=power_radio, power_antenna_w=power_antenna,
         elements=tuple(elements), total_loss_db_range=loss_range,
-        warnings=tuple(_range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
-                       + _tuner_warnings(station.feed, designs, station.labels, swr_in)
+        radio_forward_w=forward_w, radio_reflected_w=reflected_w,
+        radio_mismatch_loss_db=port_mismatch_loss_db(held_w, _phase_mean(drive.net_w, swr_only)),
+        radio_holds=station.radio_holds,
+        warnings=tuple(_radio_warnings(station, drive, swr_radio, swr_only)
+                       + _range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
+                       + _tuner_warnings(station.feed, designs, station.labels, swr_in, station.tuner_set_at)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings
                        + safety.gain_warnings(station.antenna_gain_dbi) + measured_warnings),
         measured=measured_facts,

@@ -22,7 +22,7 @@ class CableListing:
     def to_dict(self) -> list[dict]:
         """The JSON document of ``linecalc cables --format json``."""
         return [{"id": c.id, "kind": c.kind, "z0_ohm": c.z0_nominal_ohm, "velocity_factor": c.velocity_factor,
-                 "description": c.description,
+                 "description": c.description, "max_voltage_v": c.max_voltage_v,
                  "loss_db_per_100m": {f"{f:g}": 100 * float(loss) for f, loss in zip(self.frequency_hz, losses)}}
                 for c, losses in zip(self.cables, self.loss_db_per_m)]
 

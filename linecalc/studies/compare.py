@@ -10,6 +10,12 @@ Rules for a change of line kind (documented in the README):
   front of the line.
 - balanced line -> coax: a tuner right in front becomes unbalanced, and, because the antenna was
   fed balanced, a 1:1 choke (default loss) is inserted between the coax and the antenna side.
+- coax -> balanced line: a choke right after the coax (at the feedpoint) is dropped: the
+  balanced line feeds the balanced antenna, and the balun or balanced tuner sits at its radio end.
+- the tuner moved to the antenna end of the main line: a choke right after the line stays on the
+  line's side of the tuner (between the coax and the tuner), where the coax is matched, rather
+  than at the tuner's high-impedance output.
+Each alternative lists what it added, moved or dropped (``changes``).
 """
 from __future__ import annotations
 
@@ -58,6 +64,7 @@ class Alternative:
     name: str
     station: Station
     varies: str | None = None
+    changes: tuple[str, ...] = ()  # elements added, moved or dropped against the station as built
 
 
 @dataclass(frozen=True)
@@ -92,6 +99,7 @@ class Comparison:
     margin_db: np.ndarray
     warnings: tuple[str, ...] = ()
     line_study: LineStudy | None = None
+    changes: tuple[tuple[str, ...], ...] = ()  # per alternative, what it added, moved or dropped
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc compare --format json``: per row, each alternative's
@@ -108,8 +116,9 @@ class Comparison:
                 "winner": self.names[self.winner[i]],
                 "margin_db": finite_or_none(self.margin_db[i]),
             })
-        doc = {"station": self.station, "alternatives": list(self.names), "rows": rows,
-               "warnings": list(self.warnings)}
+        doc = {"station": self.station, "alternatives": list(self.names),
+               "changes": [list(c) for c in self.changes] if self.changes else [[] for _ in self.names],
+               "rows": rows, "warnings": list(self.warnings)}
         study = self.line_study
         if study is not None:
             doc["line_study"] = {
@@ -145,24 +154,43 @@ def _offers_balanced(element) -> bool:
     return element.kind == "choke" or bool(element.output_balanced)
 
 
+def _feedpoint_run_end(feed, index):
+    """End (exclusive) of the run of chokes and meters right after line ``index``: what sits at
+    the line's antenna end (a meter is lossless, so a choke behind it is still at the feedpoint)."""
+    end = index + 1
+    while end < len(feed) and feed[end].kind in ("choke", "meter"):
+        end += 1
+    return end
+
+
 def _with_cable(feed, index, cable, z_ref_ohm):
-    """The feed with line ``index`` made of ``cable``, plus the balun or choke a change of kind needs."""
+    """The feed with line ``index`` made of ``cable``, plus the balun or choke a change of kind
+    needs, and what changed (texts)."""
     feed = list(feed)
     old = feed[index]
     feed[index] = dataclasses.replace(old, cable=cable)
     if old.cable.kind == cable.kind:
-        return tuple(feed)
+        return tuple(feed), ()
+    changes = []
     before = feed[index - 1] if index > 0 else None
     if cable.kind == "balanced":
+        for k in reversed(range(index + 1, _feedpoint_run_end(feed, index))):
+            if feed[k].kind == "choke":
+                changes.insert(0, f"choke {feed[k].label} dropped (balanced line to the antenna)")
+                del feed[k]
         if before is not None and before.kind == "tuner":
             feed[index - 1] = dataclasses.replace(before, output_balanced=True)
+            changes.append(f"tuner {before.label} made balanced")
         elif not _offers_balanced(before):
             feed.insert(index, Transformer("balun for " + old.label, 1.0, INSERTED_BALUN_LOSS_DB, z_ref_ohm))
-        return tuple(feed)
+            changes.append(f"1:1 balun added at the radio end of {old.label}")
+        return tuple(feed), tuple(changes)
     if before is not None and before.kind == "tuner":
         feed[index - 1] = dataclasses.replace(before, output_balanced=False)
+        changes.append(f"tuner {before.label} made unbalanced")
     feed.insert(index + 1, Choke("choke after " + old.label, INSERTED_CHOKE_LOSS_DB, z_ref_ohm))
-    return tuple(feed)
+    changes.append(f"1:1 choke added between {old.label} and the antenna")
+    return tuple(feed), tuple(changes)
 
 
 def cable_alternatives(station: Station, cables, main_label=None) -> list[Alternative]:
@@ -171,8 +199,9 @@ def cable_alternatives(station: Station, cables, main_label=None) -> list[Altern
     line = station.feed[index]
     alternatives = [Alternative(f"{line.label}: {line.cable.id} (as built)", station)]
     for name, cable in cables:
-        feed = _with_cable(station.feed, index, cable, station.reference_impedance_ohm)
-        alternatives.append(Alternative(f"{line.label}: {name}", dataclasses.replace(station, feed=feed)))
+        feed, changes = _with_cable(station.feed, index, cable, station.reference_impedance_ohm)
+        alternatives.append(Alternative(f"{line.label}: {name}", dataclasses.replace(station, feed=feed),
+                                        changes=changes))
     return alternatives
 
 
@@ -185,13 +214,23 @@ def tuner_alternatives(station: Station, main_label=None) -> list[Alternative]:
     rest = [element for k, element in enumerate(station.feed) if k != tuners[0]]
     index = main_line_index(tuple(rest), main_label)
     at_radio = tuple(rest[:index]) + (tuner,) + tuple(rest[index:])
-    at_antenna = tuple(rest[:index + 1]) + (tuner,) + tuple(rest[index + 1:])
+    # chokes right after the line stay on the line's side of the tuner (README, compare rules);
+    # meters among them stay where they read, at the feedpoint
+    end = _feedpoint_run_end(rest, index)
+    kept = tuple(e for e in rest[index + 1:end] if e.kind == "choke")
+    meters = tuple(e for e in rest[index + 1:end] if e.kind != "choke")
+    at_antenna = tuple(rest[:index + 1]) + kept + (tuner,) + meters + tuple(rest[end:])
+    changes = [f"tuner {tuner.label} moved to the antenna end of {rest[index].label}"]
+    changes += [f"choke {c.label} kept between {rest[index].label} and the tuner" for c in kept]
     if rest[index].cable.kind == "balanced" and not _offers_balanced(rest[index - 1] if index > 0 else None):
         # the line loses its balanced tuner: feed it through a 1:1 balun, as the station would need
         balun = Transformer("balun for " + rest[index].label, 1.0, INSERTED_BALUN_LOSS_DB, station.reference_impedance_ohm)
-        at_antenna = tuple(rest[:index]) + (balun, rest[index], tuner) + tuple(rest[index + 1:])
-    return [Alternative(f"tuner at the radio end of {rest[index].label}", dataclasses.replace(station, feed=at_radio)),
-            Alternative(f"tuner at the antenna end of {rest[index].label}", dataclasses.replace(station, feed=at_antenna))]
+        at_antenna = tuple(rest[:index]) + (balun, rest[index], *kept, tuner, *meters) + tuple(rest[end:])
+        changes.append(f"1:1 balun added at the radio end of {rest[index].label}")
+    return [Alternative(f"tuner at the radio end of {rest[index].label}", dataclasses.replace(station, feed=at_radio),
+                        changes=(f"tuner {tuner.label} at the radio end of {rest[index].label}",)),
+            Alternative(f"tuner at the antenna end of {rest[index].label}", dataclasses.replace(station, feed=at_antenna),
+                        changes=tuple(changes))]
 
 
 def length_alternatives(station: Station, label, lengths_m) -> list[Alternative]:
@@ -215,16 +254,33 @@ def compare(station: Station, alternatives) -> Comparison:
     results = tuple(solve_budget(alternative.station) for alternative in alternatives)
     power = np.array([r.power_antenna_w for r in results])
     loss = np.array([r.total_loss_db for r in results])
-    order = np.argsort(loss, axis=0, kind="stable")
+    # ranked by what the user gets: watts at the antenna, so that a radio that holds its forward
+    # power and folds back into a mismatch counts against the alternative that causes it
+    order = np.argsort(-power, axis=0, kind="stable")
     winner = order[0]
-    columns = np.arange(loss.shape[1])
-    best, runner_up = loss[winner, columns], loss[order[1], columns]
-    # two alternatives into a dead short both lose everything: no margin between them
-    both_lost = np.isinf(best) & np.isinf(runner_up)
-    margin = np.where(both_lost, 0.0, runner_up - np.where(both_lost, 0.0, best))
-    warnings = tuple(dict.fromkeys(w for r in results for w in r.warnings))
+    columns = np.arange(power.shape[1])
+    best, runner_up = power[winner, columns], power[order[1], columns]
+    # two alternatives into a dead short both deliver nothing: no margin between them
+    both_lost = (best == 0) & (runner_up == 0)
+    # only the runner-up delivering nothing: an infinite margin (null in JSON)
+    delivers = runner_up > 0
+    margin = np.where(both_lost, 0.0,
+                      np.where(delivers, 10 * np.log10(np.where(delivers, best, 1.0) / np.where(delivers, runner_up, 1.0)),
+                               np.inf))
+    warnings = _named_warnings(alternatives, results)
     return Comparison(station.name, tuple(station.labels), np.asarray(station.frequency_hz), tuple(a.name for a in alternatives),
-                      results, power, loss, winner, margin, warnings, _line_study(alternatives, results))
+                      results, power, loss, winner, margin, warnings, _line_study(alternatives, results),
+                      tuple(a.changes for a in alternatives))
+
+
+def _named_warnings(alternatives, results):
+    """Each warning once, led by the alternatives that raise it (or 'every alternative')."""
+    raised = {}
+    for alternative, result in zip(alternatives, results):
+        for warning in result.warnings:
+            raised.setdefault(warning, []).append(alternative.name)
+    return tuple(f"{'every alternative' if len(names) == len(alternatives) else '; '.join(names)}: {warning}"
+                 for warning, names in raised.items())
 
 
 def _line_study(alternatives, results):

@@ -33,6 +33,7 @@ class SwrCurves:
     frequency_hz: list
     swr_antenna: list
     swr_radio: list
+    tuner_set_hz: list | None = None  # per row, where a tuner held across the band was set [Hz], or None
 
 
 @dataclass(frozen=True)
@@ -76,7 +77,8 @@ def figure_data(kind: str, station: Station, *, sweep_points: int, line_label: s
         if kind == "swr":
             sweeps = solve_band_sweeps(station, sweep_points)[1]
             return SwrCurves([s.label for s in sweeps], [s.frequency_hz for s in sweeps],
-                             [s.swr_antenna for s in sweeps], [s.swr_radio for s in sweeps])
+                             [s.swr_antenna for s in sweeps], [s.swr_radio for s in sweeps],
+                             [s.tuner_set_hz for s in sweeps])
         if kind == "budget":
             return solve_budget(station)
         if kind == "smith":

@@ -29,6 +29,7 @@ class AdviceResult:
     advice: LengthAdvice
     frequency_hz: np.ndarray
     rows: np.ndarray
+    feeder_kind: str = "balanced"  # the scanned line's cable kind: coax or balanced
 
     def to_dict(self, top: int = TOP_WINDOWS) -> dict:
         """The JSON document of ``linecalc advise --format json`` (``top`` windows by voltage)."""
@@ -109,4 +110,4 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
         allow_large_scan=allow_large_scan, progress=progress)
     if max_loss_db is not None:
         advice = within_loss(advice, max_loss_db)
-    return AdviceResult(station.name, advice, f, rows)
+    return AdviceResult(station.name, advice, f, rows, feed[index].cable.kind)

@@ -36,7 +36,10 @@ class Station:
 
     ``feed`` is ordered from the radio to the antenna; ``labels`` name each requested row
     (band name or frequency) and ``frequency_hz`` gives its frequency. ``compare`` is the
-    station file's ``compare:`` key, if it has one.
+    station file's ``compare:`` key, if it has one. ``radio_holds`` says which power the
+    radio's control holds at ``radio_power_w`` (``forward`` or ``net``); ``radio_foldback_swr``
+    and ``radio_max_power_w`` are its reflected-power limit and largest forward power (None:
+    none); see `linecalc.physics.source.radio_drive`.
     """
 
     name: str
@@ -51,6 +54,12 @@ class Station:
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
     antenna_gain_dbi: float = 2.15
+    radio_holds: str = "forward"
+    radio_foldback_swr: float | None = None
+    radio_max_power_w: float | None = None
+    # per row, the index of the row at whose frequency a tuner that adjusts once is set (a band
+    # sweep: the point nearest the band's row frequency); None: every row is set at its own
+    tuner_set_at: np.ndarray | None = field(default=None, compare=False)
     band_edges_hz: tuple = ()  # per row: (low, high) of its band [Hz], or None for an explicit frequency
     source_file: str = "<station>"
     key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file

@@ -85,7 +85,7 @@ def test_line_voltage_maximum_against_the_standing_wave_closed_form(case, cli, w
     station = write_file("line.yaml", f"""\
 name: Low-loss line
 frequencies: [14.2 MHz]
-radio: {{power: {power_w:g} W}}
+radio: {{power: {power_w:g} W, holds: net}}
 antenna:
   impedance: {{14.2 MHz: {load_ohm:g}+j0}}
 feed:
@@ -265,7 +265,7 @@ def test_implausible_gain_is_a_warning_not_an_error(cli, write_file):
 TUNER_STATION = """\
 name: Tuner ratings
 region: 1
-radio: {{power: 100 W}}
+radio: {{power: 100 W, holds: net}}
 bands: [20m]
 antenna:
   impedance: {{14.0 MHz: 150+j0, 14.35 MHz: 150+j0}}
@@ -306,7 +306,7 @@ def test_tuner_capacitor_below_its_peak_voltage_warns_naming_band_and_part(cli, 
 CABLE_STATION = """\
 name: Cable rating
 region: 1
-radio: {{power: 1500 W}}
+radio: {{power: 1500 W, holds: net}}
 bands: [40m, 20m]
 antenna:
   impedance: {{7.0 MHz: 600+j0, 7.2 MHz: 600+j0, 14.0 MHz: 50+j0, 14.35 MHz: 50+j0}}

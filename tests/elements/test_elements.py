@@ -286,7 +286,7 @@ def test_connector_at_low_and_high_impedance_is_its_series_resistance(z_load, ex
 
 STATION_HEAD = """\
 name: element test
-radio: {{power: 100 W}}
+radio: {{power: 100 W, holds: net}}
 frequencies: [7.1 MHz]
 antenna:
   impedance: {{7.1 MHz: {antenna}}}
@@ -468,7 +468,7 @@ def test_lossy_open_quarter_wave_stub_shorts_the_path(make_station):
 
 CHOKE_STATION = """\
 name: choke test
-radio: {{power: 100 W}}
+radio: {{power: 100 W, holds: net}}
 frequencies: [1.9 MHz, 3.6 MHz, 7.1 MHz, 10.12 MHz, 14.2 MHz, 28.5 MHz]
 antenna:
   impedance: {{1.8 MHz: 50+j0, 30 MHz: 50+j0}}
@@ -580,7 +580,7 @@ TUNER_ROWS_HZ = np.array([3.6e6, 7.1e6, 14.2e6, 21.2e6])
 TUNER_LOADS = "{3.6 MHz: 95+j150, 7.1 MHz: 2400-j1700, 14.2 MHz: 1800+j1250, 21.2 MHz: 300+j500}"
 TUNER_STATION = """\
 name: tuner placement
-radio: {{power: 100 W}}
+radio: {{power: 100 W, holds: net}}
 frequencies: [3.6 MHz, 7.1 MHz, 14.2 MHz, 21.2 MHz]
 antenna:
   impedance: {loads}

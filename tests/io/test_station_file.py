@@ -213,6 +213,9 @@ def test_defaults_of_a_minimal_station():
     assert station.compare is None and station.feed == ()
     assert station.labels == ("7.1 MHz",) and station.band_edges_hz == (None,)
     assert station.source_file == "<station>"
+    # README (The radio): it holds its forward power, no reflected-power limit, no largest power
+    assert station.radio_holds == "forward"
+    assert station.radio_foldback_swr is None and station.radio_max_power_w is None
 
 
 @pytest.mark.parametrize("written, expected", [
@@ -234,6 +237,35 @@ def test_radio_mode_by_name_or_number(written, mode, duty):
             "antenna: {impedance: {7.1 MHz: 50}}\nfeed: []\n")
     station = parse_station_text(text)
     assert station.mode == mode and station.duty_factor == duty
+
+
+def _radio(written):
+    return f"name: R\nradio: {written}\nfrequencies: [7.1 MHz]\nantenna: {{impedance: {{7.1 MHz: 50}}}}\nfeed: []\n"
+
+
+def test_radio_holds_foldback_and_largest_power():
+    station = parse_station_text(_radio("{power: 100 W, holds: net, foldback_swr: 2.5, max_power: 0.12 kW}"))
+    assert station.radio_holds == "net" and station.radio_foldback_swr == 2.5
+    assert station.radio_max_power_w == pytest.approx(120.0, rel=1e-15)
+
+
+@pytest.mark.parametrize("written, message", [
+    ("{power: 100 W, holds: available}", "holds is forward or net"),
+    ("{power: 100 W, foldback_swr: 1}", "must be above 1"),
+    ("{power: 100 W, foldback_swr: 2 W}", "expected a number"),
+    ("{power: 100 W, max_power: 50 ohm}", "W"),
+    ("{power: 200 W, max_power: 100 W}", "above max_power"),
+])
+def test_bad_radio_drive_keys_are_refused_at_their_line(written, message):
+    with pytest.raises(StationError, match=message) as info:
+        parse_station_text(_radio(written), "r.yaml")
+    assert info.value.line == 2
+
+
+def test_a_net_holding_radio_may_be_set_above_its_largest_forward_power():
+    # a tube amplifier loaded for 200 W whose forward power cannot exceed 250 W: allowed
+    station = parse_station_text(_radio("{power: 200 W, holds: net, max_power: 250 W}"))
+    assert station.radio_max_power_w == 250.0
 
 
 def test_a_name_written_as_a_whole_number_is_text():

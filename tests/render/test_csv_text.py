@@ -17,7 +17,7 @@ from linecalc.render import csv_text
 
 BUDGET_HEADER = ["label", "frequency_hz", "swr_antenna", "swr_radio", "z_antenna_r_ohm", "z_antenna_x_ohm",
                  "z_radio_r_ohm", "z_radio_x_ohm", "matched_loss_db", "mismatch_loss_db", "total_loss_db",
-                 "power_radio_w", "power_antenna_w"]
+                 "power_radio_w", "power_antenna_w", "radio_forward_w", "radio_reflected_w", "radio_mismatch_loss_db"]
 
 
 def read(text):
@@ -56,7 +56,8 @@ def test_budget_csv_fields_are_the_result(plain_result):
     _, rows = read(csv_text.budget_csv(r))
     for i, row in enumerate(rows):
         for key in ("frequency_hz", "swr_antenna", "swr_radio", "matched_loss_db", "mismatch_loss_db", "total_loss_db",
-                    "power_radio_w", "power_antenna_w"):
+                    "power_radio_w", "power_antenna_w", "radio_forward_w", "radio_reflected_w",
+                    "radio_mismatch_loss_db"):
             assert close(row[key], float(getattr(r, key)[i])), (key, row[key])
         for end in ("antenna", "radio"):
             z = getattr(r, f"z_{end}_ohm")[i]

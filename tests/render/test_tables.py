@@ -54,13 +54,13 @@ def shown(cell, value, decimals):
 
 # --- budget ------------------------------------------------------------------------------------
 
-BUDGET_HEADERS = ["row", "MHz", "SWR antenna", "SWR radio", "matched loss dB", "mismatch loss dB", "total loss dB",
-                  "antenna W", "path heat W"]
+BUDGET_HEADERS = ["row", "MHz", "SWR antenna", "SWR radio", "radio fwd / refl W", "radio mismatch dB",
+                  "matched loss dB", "mismatch loss dB", "total loss dB", "antenna W", "path heat W"]
 
 
 def test_budget_table_heads_with_the_station_its_power_and_reference(plain_result):
     first = tables.budget_table(plain_result).splitlines()[0]
-    assert first.startswith("Render test: ") and "100 W from the radio" in first and "50 ohm" in first
+    assert first.startswith("Render test: ") and "100 W forward power held by the radio" in first and "50 ohm" in first
 
 
 def test_budget_table_headers_carry_their_units(plain_result):
@@ -76,13 +76,15 @@ def test_budget_table_numbers_are_the_result_rounded(plain_result):
     _, rows = parse_table(tables.budget_table(r), "SWR antenna")
     for i, row in enumerate(rows):
         assert abs(float(row[1]) - r.frequency_hz[i] / 1e6) <= 5e-4 * r.frequency_hz[i] / 1e6  # 4 significant digits
-        for column, values in ((2, r.swr_antenna), (3, r.swr_radio), (4, r.matched_loss_db),
-                               (5, r.mismatch_loss_db), (6, r.total_loss_db)):
+        for column, values in ((2, r.swr_antenna), (3, r.swr_radio), (5, r.radio_mismatch_loss_db),
+                               (6, r.matched_loss_db), (7, r.mismatch_loss_db), (8, r.total_loss_db)):
             assert shown(row[column], values[i], 2), (row, column)
-        assert shown(row[7], r.power_antenna_w[i], 1)
-        # the heat in the path is the radio's watts less the antenna's (energy balance: README,
+        forward, reflected = row[4].split(" / ")
+        assert shown(forward, r.radio_forward_w[i], 1) and shown(reflected, r.radio_reflected_w[i], 1)
+        assert shown(row[9], r.power_antenna_w[i], 1)
+        # the heat in the path is the radio's net watts less the antenna's (energy balance: README,
         # How linecalc computes, Path)
-        assert shown(row[8], r.power_radio_w[i] - r.power_antenna_w[i], 1)
+        assert shown(row[10], r.power_radio_w[i] - r.power_antenna_w[i], 1)
 
 
 def test_an_infinite_swr_and_loss_are_shown_as_inf(plain_result):
@@ -90,8 +92,10 @@ def test_an_infinite_swr_and_loss_are_shown_as_inf(plain_result):
     # Microwave Engineering, 4th ed., section 2.3), and no watts reach it
     _, rows = parse_table(tables.budget_table(plain_result), "SWR antenna")
     short = rows[1]
-    assert short[2] == "inf" and short[6] == "inf" and short[5] == "inf"
-    assert short[7] == "0.0" and short[8] == "100.0"
+    assert short[2] == "inf" and short[8] == "inf" and short[7] == "inf"
+    # the radio holds 100 W forward: what the 10 m of coax returns is reflected, the rest is heat
+    forward, reflected = (float(x) for x in short[4].split(" / "))
+    assert short[9] == "0.0" and forward == 100.0 and abs(float(short[10]) - (forward - reflected)) <= 0.1
     assert "nan" not in tables.budget_table(plain_result).lower()
 
 
@@ -119,17 +123,17 @@ def test_the_meter_section_reads_forward_reflected_and_swr(plain_result):
         swr, forward, reflected = re.fullmatch(r"SWR (\S+), fwd (\S+) W, refl (\S+) W", row[1]).groups()
         assert shown(swr, meter.readings["swr"][i], 2)
         # forward less reflected is the net power at the meter (Pozar, Microwave Engineering, 4th
-        # ed., section 2.3): all 100 W of the radio, short or not; rounding of two cells, 0.1 W
-        assert abs(float(forward) - float(reflected) - 100.0) <= 0.1
+        # ed., section 2.3): the radio's net watts, short or not; rounding of two cells, 0.1 W
+        assert abs(float(forward) - float(reflected) - plain_result.power_radio_w[i]) <= 0.1
 
 
 def test_a_tuner_adds_its_loss_column_and_its_settings(tuner_result):
     text = tables.budget_table(tuner_result)
     headers, rows = parse_table(text, "SWR antenna")
-    assert headers == BUDGET_HEADERS[:7] + ["tuner loss dB"] + BUDGET_HEADERS[7:]
+    assert headers == BUDGET_HEADERS[:9] + ["tuner loss dB"] + BUDGET_HEADERS[9:]
     tuner = tuner_result.elements[0]
     for i, row in enumerate(rows):
-        assert shown(row[7], tuner.loss_db[i], 2)
+        assert shown(row[9], tuner.loss_db[i], 2)
     assert "Tuner shack tuner (parts from the radio side to the antenna side):" in text
     headers, rows = parse_table(text, "arrangement")
     assert headers == ["row", "match", "arrangement", "settings"]
@@ -150,10 +154,10 @@ def test_an_swr_only_antenna_shows_the_loss_range_and_says_why(swr_only_result, 
     headers, rows = parse_table(text, "SWR antenna")
     assert headers == BUDGET_HEADERS + ["loss range dB"]
     for i, row in enumerate(rows):
-        least, most = re.fullmatch(r"(\S+) to (\S+)", row[9]).groups()
+        least, most = re.fullmatch(r"(\S+) to (\S+)", row[11]).groups()
         assert shown(least, swr_only_result.total_loss_db_range[i, 0], 2)
         assert shown(most, swr_only_result.total_loss_db_range[i, 1], 2)
-        assert float(least) <= float(row[6]) <= float(most)
+        assert float(least) <= float(row[8]) <= float(most)
     assert text.count(tables.SWR_ONLY_NOTE) == 1
     assert "SWR only" in tables.SWR_ONLY_NOTE and "phase is unknown" in tables.SWR_ONLY_NOTE
     assert tables.SWR_ONLY_NOTE not in tables.budget_table(plain_result)
@@ -296,7 +300,9 @@ def test_compare_table_keys_alternatives_and_names_the_winner(comparison):
     text = tables.compare_table(comparison)
     assert text.splitlines()[0].startswith(comparison.station)
     for k, name in enumerate(comparison.names):
-        assert f"  [{k + 1}] {name}" in text.splitlines()
+        # each key line is the name, then what the alternative added, moved or dropped in brackets
+        assert any(line == f"  [{k + 1}] {name}" or line.startswith(f"  [{k + 1}] {name} (")
+                   for line in text.splitlines()), name
     headers, rows = parse_table(text, "winner")
     assert headers == ["row", "[1] W / dB", "[2] W / dB", "[3] W / dB", "winner", "margin dB"]
     assert [row[0] for row in rows] == list(comparison.labels)
@@ -307,9 +313,11 @@ def test_compare_table_keys_alternatives_and_names_the_winner(comparison):
             assert shown(losses[k], comparison.total_loss_db[k, i], 2)
         best = max(range(3), key=lambda k: float(watts[k]))
         assert row[4] == f"[{best + 1}]"
-        # the margin: how much less the winner loses than the runner-up (rounding of three cells)
-        runner_up = sorted(float(v) for v in losses)[1]
-        assert abs(float(row[5]) - (runner_up - float(losses[best]))) <= 0.015
+        # the margin: the winner's watts at the antenna over the runner-up's in dB (definition of
+        # the decibel); the watts cells are rounded to 0.05 W, the margin to 0.005 dB
+        runner_up = sorted((float(v) for v in watts), reverse=True)[1]
+        expected = 10 * math.log10(float(watts[best]) / runner_up)
+        assert abs(float(row[5]) - expected) <= 0.005 + 10 * math.log10(1 + 0.1 / runner_up)
 
 
 def test_compare_table_line_study_shows_exact_and_closed_form(data_path):

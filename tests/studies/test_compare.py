@@ -125,3 +125,67 @@ def test_coax_to_balanced_change_adds_a_balun_and_back_adds_a_choke(dipole, doub
 def test_no_alternatives_is_refused(dipole):
     with pytest.raises(CompareError):
         alternatives_from_spec(dipole, CompareSpec())
+
+
+# --- where chokes belong (README, Comparing alternatives) ------------------------------------
+
+CHOKED = """\
+name: Choked coax
+region: 1
+radio: {power: 100 W}
+bands: [40m]
+antenna:
+  impedance: {7.0 MHz: 2600-j1500, 7.2 MHz: 2100-j1900}
+feed:
+  - tuner: {label: shack tuner, network: T}
+  - line: {label: coax, cable: rg-8x, length: 30 m}
+  - meter: {label: feedpoint meter}
+  - choke: {label: feedpoint choke}
+"""
+
+
+def _kinds(station):
+    return [(e.kind, e.label) for e in station.feed]
+
+
+def test_a_tuner_moved_to_the_antenna_keeps_the_choke_on_the_coax_side():
+    from linecalc.io.station_file import parse_station_text
+    from linecalc.studies.compare import tuner_alternatives
+
+    at_antenna = tuner_alternatives(parse_station_text(CHOKED))[1]
+    assert _kinds(at_antenna.station) == [("line", "coax"), ("choke", "feedpoint choke"), ("tuner", "shack tuner"),
+                                          ("meter", "feedpoint meter")]
+    assert any("kept between coax and the tuner" in c for c in at_antenna.changes)
+
+
+def test_coax_replaced_by_balanced_line_drops_the_coax_choke():
+    from linecalc.io.cable_library import cable
+    from linecalc.io.station_file import parse_station_text
+    from linecalc.studies.compare import cable_alternatives
+
+    window = cable_alternatives(parse_station_text(CHOKED), [("window", cable("window-line-450"))])[1]
+    assert _kinds(window.station) == [("tuner", "shack tuner"), ("line", "coax"), ("meter", "feedpoint meter")]
+    assert window.station.feed[0].output_balanced
+    assert any("dropped" in c for c in window.changes) and any("made balanced" in c for c in window.changes)
+
+
+def test_balanced_line_without_a_tuner_in_front_gets_a_balun_at_its_radio_end():
+    from linecalc.io.cable_library import cable
+    from linecalc.io.station_file import parse_station_text
+    from linecalc.studies.compare import cable_alternatives
+
+    text = CHOKED.replace("  - tuner: {label: shack tuner, network: T}\n", "  - tuner: {label: shack tuner, network: T}\n"
+                          "  - line: {label: jumper, cable: rg-8x, length: 1 m}\n")
+    window = cable_alternatives(parse_station_text(text), [("window", cable("window-line-450"))], "coax")[1]
+    kinds = [k for k, _ in _kinds(window.station)]
+    assert kinds == ["tuner", "line", "balun", "line", "meter"]
+    assert any("balun added" in c for c in window.changes)
+
+
+def test_compare_ranks_by_watts_at_the_antenna():
+    # the winner is the alternative with the most watts at the antenna, whatever its path loss
+    from linecalc.io.station_file import parse_station_text
+    from linecalc.studies.compare import compare, tuner_alternatives
+
+    comparison = compare(parse_station_text(CHOKED), tuner_alternatives(parse_station_text(CHOKED)))
+    np.testing.assert_array_equal(comparison.winner, np.argmax(comparison.power_antenna_w, axis=0))
