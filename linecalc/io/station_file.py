@@ -13,6 +13,7 @@ import numpy as np
 from linecalc.physics import bands as band_table
 from linecalc.studies.station import CompareSpec, Station
 from linecalc.physics.exposure import MODE_DUTY_FACTORS, duty_factor
+from linecalc.io import input_file
 from linecalc.io.feed_file import build_feed, read_cable
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
 from linecalc.errors import StationError
@@ -238,8 +239,8 @@ def input_files(path) -> list[Path]:
     """
     path = Path(path)
     try:
-        doc = load_yaml_text(path.read_text(encoding="utf-8"), path)
-    except (OSError, UnicodeDecodeError, StationError):
+        doc = load_yaml_text(read_station_text(path), path)
+    except StationError:
         return [path]
     antenna = doc.get("antenna") if isinstance(doc, dict) else None
     name = antenna.get("touchstone") if isinstance(antenna, dict) else None
@@ -249,8 +250,24 @@ def input_files(path) -> list[Path]:
 def load_station(path) -> Station:
     """Read and validate a station file."""
     path = Path(path)
+    return station_from_document(load_yaml_text(read_station_text(path), path), path)
+
+
+def read_station_text(path) -> str:
+    """The text of a station file: a regular file of at most `MAX_STATION_BYTES`, in UTF-8.
+
+    Raises `StationError`: at line 0 for a file that cannot be read (naming what it is), at the
+    line of the first byte that is not UTF-8 (with its column).
+    """
+    path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise StationError(path, 0, f"cannot read the station file: {exc.strerror if isinstance(exc, OSError) else exc}") from None
-    return station_from_document(load_yaml_text(text, path), path)
+        data = input_file.read_bytes(path, input_file.MAX_STATION_BYTES)
+    except OSError as exc:
+        raise StationError(path, 0, f"cannot read the station file: {exc.strerror or exc}") from None
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data.count(b"\n", 0, exc.start) + 1
+        column = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise StationError(path, line, f"byte 0x{data[exc.start]:02x} at column {column} is not UTF-8; "
+                                       "a station file is UTF-8 text") from None

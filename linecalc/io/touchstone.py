@@ -7,12 +7,13 @@ is done by hand (a Touchstone 1.x ``# Hz S RI R 50`` file is a few lines of text
 """
 from __future__ import annotations
 
+import io
 import re
 from pathlib import Path
 
 import numpy as np
 from linecalc.errors import InputError
-from linecalc.io import atomic
+from linecalc.io import atomic, input_file
 
 UNITS_HZ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
 PARAMETERS = ("s", "y", "z")
@@ -45,16 +46,18 @@ class TouchstoneWriteError(InputError):
 def _read_text(path: Path) -> str:
     if not path.exists():
         raise TouchstoneError(path, None, "no such file")
-    if path.is_dir():
-        raise TouchstoneError(path, None, "is a folder, not a Touchstone file")
     try:
-        data = path.read_bytes()
+        data = input_file.read_bytes(path, input_file.MAX_TOUCHSTONE_BYTES)
+    except input_file.InputFileError as exc:
+        raise TouchstoneError(path, None, exc.reason) from None
     except OSError as exc:
         raise TouchstoneError(path, None, f"cannot be read: {exc.strerror}") from None
     try:  # the same encodings scikit-rf tries
-        return data.decode("utf-8-sig")
+        text = data.decode("utf-8-sig")
     except UnicodeDecodeError:
-        return data.decode("latin-1")
+        text = data.decode("latin-1")
+    # CR-LF, LF and a lone CR (old editors) each end a line, as an editor counts them
+    return text.replace("\r\n", "\n").replace("\r", "\n")
 
 
 def _scan(path: Path, text: str):
@@ -208,7 +211,9 @@ def read_one_port(path):
         raise TouchstoneError(path, where, "reading Touchstone files needs scikit-rf "
                                            "(pip install scikit-rf)") from None
     try:
-        parsed = Touchstone(str(path))
+        text_file = io.StringIO(text)  # the text checked above, not the file read a second time
+        text_file.name = str(path)
+        parsed = Touchstone(text_file)
     except Exception as exc:  # noqa: BLE001 - whatever the parser raises is a bad file, named here
         raise TouchstoneError(path, where, f"scikit-rf cannot read it: {exc}") from None
     if parsed.rank != 1 or len(parsed.f) != len(rows):
