@@ -148,7 +148,10 @@ def _run_budget(args) -> int:
     for path in paths:
         try:
             station = api.load_station(path)
-            results.append(api.solve_budget(station, sweep_points=args.sweep))
+            try:
+                results.append(api.solve_budget(station, sweep_points=args.sweep))
+            except api.SweepPointsError as exc:
+                raise OptionError(f"--sweep: {exc}") from None
         except StationError as exc:
             if len(paths) == 1:
                 raise
@@ -308,11 +311,15 @@ def _run_plot(args) -> int:
     from linecalc import api
     from linecalc.studies.figure_data import PlotProblem
 
+    if args.sweep < 2:
+        raise OptionError(f"--sweep: at least 2 points per band, got {args.sweep}")
     station = api.load_station(args.station)
     try:
         api.draw_figure(args.kind, station, args.output, sweep_points=args.sweep, line=args.line, force=args.force)
     except PlotProblem as exc:
         raise OptionError(str(exc)) from None
+    except api.SweepPointsError as exc:
+        raise OptionError(f"--sweep: {exc}") from None
     print(f"wrote {args.output}", file=sys.stderr)
     return EXIT_OK
 
