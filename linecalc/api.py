@@ -158,6 +158,14 @@ def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP
     (.png or .svg, written atomically): ``linecalc plot``. Returns the matplotlib Figure."""
     from linecalc.render import plots
 
+    from linecalc.io import atomic
+
+    try:  # before any work: never over an input (the station, its sweep), by path or by file
+        atomic.check_output(path, force=force, protected=input_files(station))
+    except (atomic.OutputIsInputError, atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
+        raise figure_data.PlotProblem(str(exc)) from None
+    except atomic.OutputExistsError:
+        raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it") from None
     if kind in ("swr", "smith"):
         _check_sweep_points(station, sweep_points)
     with errors_located(station):

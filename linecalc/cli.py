@@ -5,10 +5,11 @@ Exit status: 0 success (warnings on stderr), 2 bad input or usage, 1 an internal
 from __future__ import annotations
 
 import argparse
+import contextlib
 import sys
 import warnings
 from linecalc import __version__
-from linecalc.errors import InputError, StationError
+from linecalc.errors import InputError, StationError, printable
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
@@ -138,13 +139,13 @@ def _run_budget(args) -> int:
     paths = _station_paths(args.station)
     if not paths:
         raise OptionError(f"no station files (*.yaml) in {', '.join(args.station)}")
-    if args.radio_s1p and len(paths) > 1:
+    if args.radio_s1p is not None and len(paths) > 1:
         raise OptionError("--radio-s1p: give exactly one station")
     if args.sweep is not None and args.sweep < 2:
         raise OptionError("--sweep: at least 2 points per band")
     if args.sweep is not None and args.format == "csv":
         raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
-    results, failed = [], False
+    results, failed, internal = [], False, False
     for path in paths:
         try:
             station = api.load_station(path)
@@ -157,7 +158,12 @@ def _run_budget(args) -> int:
                 raise
             print(str(exc), file=sys.stderr)
             failed = True
-    if args.radio_s1p:
+        except Exception as exc:  # a fault of linecalc's on one station of a batch: named, the others go on
+            if len(paths) == 1 or isinstance(exc, InputError):
+                raise
+            print(printable(f"{path}: internal error: {type(exc).__name__}: {exc}"), file=sys.stderr)
+            internal = True
+    if args.radio_s1p is not None:
         _export_radio(args, station, results[0])
     if args.format == "json":
         documents = [r.to_dict() for r in results]
@@ -170,6 +176,8 @@ def _run_budget(args) -> int:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
             print(f"warning: {prefix}{warning}", file=sys.stderr)
+    if internal:
+        return EXIT_INTERNAL
     return EXIT_BAD_INPUT if len(paths) > 1 and failed else EXIT_OK
 
 
@@ -236,11 +244,11 @@ def _run_feedpoint(args) -> int:
     result = api.solve_feedpoint(station)
     render = {"table": tables.feedpoint_table, "json": lambda r: json_text.to_json(r.to_dict()),
               "csv": csv_text.feedpoint_csv}[args.format]
-    sys.stdout.write(render(result))
-    if args.output:
+    if args.output is not None:  # written before anything is printed: a refused write prints nothing
         _write_s1p(args.output, result.frequency_hz, result.sweep.z_antenna_ohm, station.reference_impedance_ohm,
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
                    api.input_files(station))
+    sys.stdout.write(render(result))
     if result.sweep.active.any():
         print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(result.sweep.active.sum())} points: "
               "the described path does not match the measurement there", file=sys.stderr)
@@ -336,8 +344,56 @@ def _run_cables(args) -> int:
     return EXIT_OK
 
 
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as a shell reports Ctrl-C
+
+
+class _Terminated(BaseException):
+    """SIGTERM or SIGHUP, raised where the program is, so that every ``finally`` runs (a temporary
+    output file is removed) before the command exits with 128 + the signal's number."""
+
+    def __init__(self, signum):
+        self.signum = signum
+        super().__init__(signum)
+
+
+def _terminate(signum, frame):
+    raise _Terminated(signum)
+
+
+@contextlib.contextmanager
+def _signals_raise():
+    """SIGTERM and SIGHUP raise `_Terminated` inside the block (main thread only; restored after)."""
+    import signal
+    import threading
+
+    names = [name for name in ("SIGTERM", "SIGHUP") if hasattr(signal, name)]
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = {name: signal.signal(getattr(signal, name), _terminate) for name in names}
+    try:
+        yield
+    finally:
+        for name, handler in previous.items():
+            signal.signal(getattr(signal, name), handler)
+
+
 def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
+    try:
+        with _signals_raise():
+            return _main(args)
+    except KeyboardInterrupt:
+        print("linecalc: interrupted", file=sys.stderr)
+        return EXIT_INTERRUPTED
+    except _Terminated as exc:
+        import signal
+
+        print(f"linecalc: stopped by {signal.Signals(exc.signum).name}", file=sys.stderr)
+        return 128 + exc.signum
+
+
+def _main(args) -> int:
     try:
         with warnings.catch_warnings():
             # a numerical warning (overflow, 0/0) means a number that cannot be trusted: stop

@@ -244,6 +244,8 @@ def input_files(path) -> list[Path]:
         return [path]
     antenna = doc.get("antenna") if isinstance(doc, dict) else None
     name = antenna.get("touchstone") if isinstance(antenna, dict) else None
+    if isinstance(name, int) and not isinstance(name, bool):
+        name = str(name)  # touchstone: 123 names the file 123, as the loader reads it
     return [path] + ([path.parent / name.strip()] if isinstance(name, str) and name.strip() else [])
 
 

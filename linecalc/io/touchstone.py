@@ -315,5 +315,9 @@ def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, for
         raise TouchstoneWriteError(path, f"is an input of this run ({exc.other}); it is never overwritten") from None
     except atomic.OutputExistsError:
         raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
+    except atomic.OutputWriteError as exc:
+        raise TouchstoneWriteError(path, f"cannot be written: {exc.reason}") from None
+    except atomic.OutputNotFileError as exc:
+        raise TouchstoneWriteError(path, f"is {exc.what}, not a regular file; it is never replaced") from None
     except OSError as exc:
         raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None
