@@ -187,16 +187,10 @@ class OptionError(InputError):
 
 def _run_compare(args) -> int:
     from linecalc import api
-    from linecalc.io.units import UnitError, parse_quantity
     from linecalc.render import csv_text, json_text, tables
 
     station = api.load_station(args.station)
-    lengths_m = ()
-    if args.lengths:
-        try:
-            lengths_m = tuple(parse_quantity(text, "m") for text in args.lengths)
-        except UnitError as exc:
-            raise OptionError(f"--lengths: {exc}") from None
+    lengths_m = tuple(_length_option("--lengths", text) for text in args.lengths or ())
     try:
         comparison = api.solve_compare(station, cables=args.cable, tuner_positions=args.tuner_positions,
                                        main_line=args.main_line, line=args.line, lengths_m=lengths_m)
@@ -280,12 +274,18 @@ class _Progress:
 
 
 def _length_option(name, text):
+    """A length given on the command line [m], held to the limits of a length in a station file."""
     from linecalc.io.units import UnitError, parse_quantity
+    from linecalc.io.yaml_schema import MAGNITUDE_LIMITS, SMALLEST
 
     try:
-        return parse_quantity(text, "m")
+        value = parse_quantity(text, "m")
     except UnitError as exc:
         raise OptionError(f"{name}: {exc}") from None
+    if not SMALLEST["m"] <= value <= MAGNITUDE_LIMITS["m"]:
+        raise OptionError(f"{name}: a length from {SMALLEST['m']:g} m to {MAGNITUDE_LIMITS['m']:g} m "
+                          f"(1,000 km), as in a station file, got {text!r}")
+    return value
 
 
 def _run_advise(args) -> int:
@@ -293,6 +293,10 @@ def _run_advise(args) -> int:
     from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
     from linecalc.render import json_text, tables
 
+    if args.max_loss is not None and not 0 <= args.max_loss < float("inf"):
+        raise OptionError(f"--max-loss: a finite loss of 0 dB or more, got {args.max_loss}")
+    if args.top < 1:
+        raise OptionError(f"--top: at least 1 window, got {args.top}")
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
     station = api.load_station(args.station)
