@@ -382,7 +382,17 @@ def _signals_raise():
             signal.signal(getattr(signal, name), handler)
 
 
+def _degrade_unencodable():
+    """Print what the terminal's encoding cannot show as escapes (PYTHONIOENCODING=ascii: ``\\xb0``)
+    rather than stop with an encoding error."""
+    for stream in (sys.stdout, sys.stderr):
+        if hasattr(stream, "reconfigure") and (getattr(stream, "encoding", None) or "").lower().replace("-", "") \
+                not in ("utf8", "utf8sig"):
+            stream.reconfigure(errors="backslashreplace")
+
+
 def main(argv=None) -> int:
+    _degrade_unencodable()
     args = build_parser().parse_args(argv)
     try:
         with _signals_raise():

@@ -154,7 +154,7 @@ def _rows(doc, ctx):
             raise where.error("frequencies is a list such as [7.15 MHz, 14.2 MHz]")
         for i in range(len(values)):
             frequency = quantity(values, i, where, "Hz")
-            labels.append(f"{frequency / 1e6:g} MHz")
+            labels.append(f"{frequency / 1e6:.9g} MHz")  # 9 digits: 7.2000001 MHz is not shown as 7.2
             frequencies.append(frequency)
             edges.append(None)
     if not labels:
@@ -208,7 +208,8 @@ def station_from_document(doc, file="<station>") -> Station:
     outside = outside_table(antenna.frequency_hz, frequency_hz)
     if outside.any():
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
-        asked = ", ".join(f"{label} ({f / 1e6:g} MHz)" for label, f, out in zip(labels, frequency_hz, outside) if out)
+        asked = ", ".join(label if label == f"{f / 1e6:.9g} MHz" else f"{label} ({f / 1e6:.9g} MHz)"
+                          for label, f, out in zip(labels, frequency_hz, outside) if out)
         raise table_ctx.error(f"{asked} outside the antenna table, which spans {span}; it is never extrapolated")
     feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
     if measured_at is not None:

@@ -23,3 +23,35 @@ def test_a_bad_option_value_is_blamed_on_the_option(cli, data_path, args, option
     code, out, err = cli(*args)
     assert code == 2 and out == ""
     assert err.startswith(f"linecalc {args[0]}: {option}: ") and err.count("\n") == 1, err
+
+
+@pytest.mark.parametrize("name", [r"Cabin \e[2J", r"Cabin \x9b2J", r"Cabin \u202e"])
+def test_a_name_with_terminal_codes_is_refused_and_shown_escaped(cli, tmp_path, data_path, one_error_line, name):
+    text = data_path("hilltop-dipole.yaml").read_text()
+    start = text.index("\nname: ") + 1
+    end = text.index("\n", start)
+    station = tmp_path / "codes.yaml"
+    station.write_text(text[:start] + f'name: "{name}"' + text[end:])
+    code, out, err = cli("budget", station)
+    assert code == 2 and out == ""
+    _, message = one_error_line(err, station)
+    assert "no control or format characters" in message
+    assert all(c.isprintable() for c in err.rstrip("\n"))
+
+
+def test_an_ascii_terminal_degrades_characters(tmp_path, data_path):
+    import os
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    text = data_path("hilltop-dipole.yaml").read_text()
+    start = text.index("\nname: ") + 1
+    end = text.index("\n", start)
+    station = tmp_path / "accent.yaml"
+    station.write_text(text[:start] + "name: Caf\u00e9 cabin" + text[end:], encoding="utf-8")
+    command = Path(sys.executable).parent / "linecalc"
+    result = subprocess.run([str(command), "budget", str(station)], capture_output=True, timeout=120,
+                            env={**os.environ, "PYTHONIOENCODING": "ascii"})
+    assert result.returncode == 0, result.stderr
+    assert result.stdout.startswith(b"Caf\\xe9 cabin")

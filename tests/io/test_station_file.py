@@ -515,3 +515,13 @@ def test_errors_of_the_whole_document_name_a_line_and_no_key(old, new, fragment,
 def test_parse_station_text_names_its_file_or_a_placeholder():
     with pytest.raises(StationError, match=r"^<station>:3: .*\(at radio\.power\)$"):
         parse_station_text(GOOD.replace("100 W", "100 m"))
+
+
+def test_a_frequency_just_outside_the_table_is_shown_with_its_digits(data_path):
+    text = data_path("hilltop-dipole.yaml").read_text().replace("frequencies: [7.0 MHz, 7.2 MHz]",
+                                                                "frequencies: [7.0 MHz, 7.2500001 MHz]")
+    with pytest.raises(StationError) as info:
+        parse_station_text(text, "near.yaml")
+    # the table ends at 7.25 MHz (its last row, in the test station): 7.2500001 MHz is 0.1 Hz past it
+    assert "7.2500001 MHz outside the antenna table" in str(info.value)
+    assert "(7.25 MHz)" not in str(info.value)
