@@ -14,7 +14,7 @@ from linecalc.io import cable_library, station_file
 from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
 from linecalc.studies import budget, length_advice, measured
 from linecalc.studies import compare as compare_study
-from linecalc.studies import figure_data
+from linecalc.studies import figure_data, work_size
 from linecalc.studies.band_sweep import solve_band_sweeps
 from linecalc.studies.cable_listing import LISTING_FREQUENCIES_HZ, CableListing, cable_listing
 from linecalc.studies.station import CompareSpec, Station, errors_located, located
@@ -45,11 +45,28 @@ def solve_budget(station: Station, *, sweep_points: int | None = None) -> budget
     command's ``--sweep N``), and the result's ``sweeps`` holds one `BandSweep` per row.
     ``to_dict()`` equals ``linecalc budget --format json`` (with ``--sweep N``).
     """
+    if sweep_points is not None:
+        _check_sweep_points(station, sweep_points)
     with errors_located(station):
         result = budget.solve_budget(station)
         if sweep_points is not None:
             result = _with_sweeps(result, *solve_band_sweeps(station, sweep_points))
     return result
+
+
+class SweepPointsError(InputError):
+    """A number of sweep points that cannot be used: fewer than 2, or a sweep too large for memory
+    (the message gives the estimate)."""
+
+
+def _check_sweep_points(station, sweep_points):
+    """Refuse ``sweep_points`` below 2, or whose sweep of the station would not fit `work_size.MAX_WORK_BYTES`."""
+    if isinstance(sweep_points, bool) or not isinstance(sweep_points, int) or sweep_points < 2:
+        raise SweepPointsError(f"at least 2 points per band, got {sweep_points!r}")
+    try:
+        work_size.check_sweep(station, sweep_points, f"{sweep_points:,} points per band")
+    except work_size.WorkTooLarge as exc:
+        raise SweepPointsError(str(exc)) from None
 
 
 def _with_sweeps(result, swept, sweeps):
@@ -143,6 +160,16 @@ def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP
     (.png or .svg, written atomically): ``linecalc plot``. Returns the matplotlib Figure."""
     from linecalc.render import plots
 
+    from linecalc.io import atomic
+
+    try:  # before any work: never over an input (the station, its sweep), by path or by file
+        atomic.check_output(path, force=force, protected=input_files(station))
+    except (atomic.OutputIsInputError, atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
+        raise figure_data.PlotProblem(str(exc)) from None
+    except atomic.OutputExistsError:
+        raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it") from None
+    if kind in ("swr", "smith"):
+        _check_sweep_points(station, sweep_points)
     with errors_located(station):
         data = figure_data.figure_data(kind, station, sweep_points=sweep_points, line_label=line)
     return plots.draw(data, path, force=force)
@@ -153,5 +180,5 @@ def input_files(station: Station) -> list[Path]:
     return station_file.input_files(station.source_file)
 
 
-__all__ = ["StationError", "draw_figure", "input_files", "list_cables", "load_station", "solve_advice",
+__all__ = ["StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables", "load_station", "solve_advice",
            "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]

@@ -5,10 +5,11 @@ Exit status: 0 success (warnings on stderr), 2 bad input or usage, 1 an internal
 from __future__ import annotations
 
 import argparse
+import contextlib
 import sys
 import warnings
 from linecalc import __version__
-from linecalc.errors import InputError, StationError
+from linecalc.errors import InputError, StationError, printable
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m in region 1
@@ -138,23 +139,31 @@ def _run_budget(args) -> int:
     paths = _station_paths(args.station)
     if not paths:
         raise OptionError(f"no station files (*.yaml) in {', '.join(args.station)}")
-    if args.radio_s1p and len(paths) > 1:
+    if args.radio_s1p is not None and len(paths) > 1:
         raise OptionError("--radio-s1p: give exactly one station")
     if args.sweep is not None and args.sweep < 2:
         raise OptionError("--sweep: at least 2 points per band")
     if args.sweep is not None and args.format == "csv":
         raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
-    results, failed = [], False
+    results, failed, internal = [], False, False
     for path in paths:
         try:
             station = api.load_station(path)
-            results.append(api.solve_budget(station, sweep_points=args.sweep))
+            try:
+                results.append(api.solve_budget(station, sweep_points=args.sweep))
+            except api.SweepPointsError as exc:
+                raise OptionError(f"--sweep: {exc}") from None
         except StationError as exc:
             if len(paths) == 1:
                 raise
             print(str(exc), file=sys.stderr)
             failed = True
-    if args.radio_s1p:
+        except Exception as exc:  # a fault of linecalc's on one station of a batch: named, the others go on
+            if len(paths) == 1 or isinstance(exc, InputError):
+                raise
+            print(printable(f"{path}: internal error: {type(exc).__name__}: {exc}"), file=sys.stderr)
+            internal = True
+    if args.radio_s1p is not None:
         _export_radio(args, station, results[0])
     if args.format == "json":
         documents = [r.to_dict() for r in results]
@@ -169,6 +178,8 @@ def _run_budget(args) -> int:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
             print(f"warning: {prefix}{warning}", file=sys.stderr)
+    if internal:
+        return EXIT_INTERNAL
     return EXIT_BAD_INPUT if len(paths) > 1 and failed else EXIT_OK
 
 
@@ -178,16 +189,10 @@ class OptionError(InputError):
 
 def _run_compare(args) -> int:
     from linecalc import api
-    from linecalc.io.units import UnitError, parse_quantity
     from linecalc.render import csv_text, json_text, tables
 
     station = api.load_station(args.station)
-    lengths_m = ()
-    if args.lengths:
-        try:
-            lengths_m = tuple(parse_quantity(text, "m") for text in args.lengths)
-        except UnitError as exc:
-            raise OptionError(f"--lengths: {exc}") from None
+    lengths_m = tuple(_length_option("--lengths", text) for text in args.lengths or ())
     try:
         comparison = api.solve_compare(station, cables=args.cable, tuner_positions=args.tuner_positions,
                                        main_line=args.main_line, line=args.line, lengths_m=lengths_m)
@@ -235,7 +240,7 @@ def _run_feedpoint(args) -> int:
     result = api.solve_feedpoint(station)
     render = {"table": tables.feedpoint_table, "json": lambda r: json_text.to_json(r.to_dict()),
               "csv": csv_text.feedpoint_csv}[args.format]
-    if args.output:  # first, so that a refused output (exit status 2) leaves stdout empty
+    if args.output is not None:  # written before anything is printed: a refused write prints nothing
         _write_s1p(args.output, result.frequency_hz, result.sweep.z_antenna_ohm, station.reference_impedance_ohm,
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
                    api.input_files(station))
@@ -271,12 +276,18 @@ class _Progress:
 
 
 def _length_option(name, text):
+    """A length given on the command line [m], held to the limits of a length in a station file."""
     from linecalc.io.units import UnitError, parse_quantity
+    from linecalc.io.yaml_schema import MAGNITUDE_LIMITS, SMALLEST
 
     try:
-        return parse_quantity(text, "m")
+        value = parse_quantity(text, "m")
     except UnitError as exc:
         raise OptionError(f"{name}: {exc}") from None
+    if not SMALLEST["m"] <= value <= MAGNITUDE_LIMITS["m"]:
+        raise OptionError(f"{name}: a length from {SMALLEST['m']:g} m to {MAGNITUDE_LIMITS['m']:g} m "
+                          f"(1,000 km), as in a station file, got {text!r}")
+    return value
 
 
 def _run_advise(args) -> int:
@@ -284,6 +295,10 @@ def _run_advise(args) -> int:
     from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
     from linecalc.render import json_text, tables
 
+    if args.max_loss is not None and not 0 <= args.max_loss < float("inf"):
+        raise OptionError(f"--max-loss: a finite loss of 0 dB or more, got {args.max_loss}")
+    if args.top < 1:
+        raise OptionError(f"--top: at least 1 window, got {args.top}")
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
     station = api.load_station(args.station)
@@ -310,11 +325,15 @@ def _run_plot(args) -> int:
     from linecalc import api
     from linecalc.studies.figure_data import PlotProblem
 
+    if args.sweep < 2:
+        raise OptionError(f"--sweep: at least 2 points per band, got {args.sweep}")
     station = api.load_station(args.station)
     try:
         api.draw_figure(args.kind, station, args.output, sweep_points=args.sweep, line=args.line, force=args.force)
     except PlotProblem as exc:
         raise OptionError(str(exc)) from None
+    except api.SweepPointsError as exc:
+        raise OptionError(f"--sweep: {exc}") from None
     print(f"wrote {args.output}", file=sys.stderr)
     return EXIT_OK
 
@@ -331,8 +350,66 @@ def _run_cables(args) -> int:
     return EXIT_OK
 
 
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as a shell reports Ctrl-C
+
+
+class _Terminated(BaseException):
+    """SIGTERM or SIGHUP, raised where the program is, so that every ``finally`` runs (a temporary
+    output file is removed) before the command exits with 128 + the signal's number."""
+
+    def __init__(self, signum):
+        self.signum = signum
+        super().__init__(signum)
+
+
+def _terminate(signum, frame):
+    raise _Terminated(signum)
+
+
+@contextlib.contextmanager
+def _signals_raise():
+    """SIGTERM and SIGHUP raise `_Terminated` inside the block (main thread only; restored after)."""
+    import signal
+    import threading
+
+    names = [name for name in ("SIGTERM", "SIGHUP") if hasattr(signal, name)]
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = {name: signal.signal(getattr(signal, name), _terminate) for name in names}
+    try:
+        yield
+    finally:
+        for name, handler in previous.items():
+            signal.signal(getattr(signal, name), handler)
+
+
+def _degrade_unencodable():
+    """Print what the terminal's encoding cannot show as escapes (PYTHONIOENCODING=ascii: ``\\xb0``)
+    rather than stop with an encoding error."""
+    for stream in (sys.stdout, sys.stderr):
+        if hasattr(stream, "reconfigure") and (getattr(stream, "encoding", None) or "").lower().replace("-", "") \
+                not in ("utf8", "utf8sig"):
+            stream.reconfigure(errors="backslashreplace")
+
+
 def main(argv=None) -> int:
+    _degrade_unencodable()
     args = build_parser().parse_args(argv)
+    try:
+        with _signals_raise():
+            return _main(args)
+    except KeyboardInterrupt:
+        print("linecalc: interrupted", file=sys.stderr)
+        return EXIT_INTERRUPTED
+    except _Terminated as exc:
+        import signal
+
+        print(f"linecalc: stopped by {signal.Signals(exc.signum).name}", file=sys.stderr)
+        return 128 + exc.signum
+
+
+def _main(args) -> int:
     try:
         with warnings.catch_warnings():
             # a numerical warning (overflow, 0/0) means a number that cannot be trusted: stop

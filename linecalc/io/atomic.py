@@ -4,10 +4,15 @@ existing file only when asked.
 The text goes to a temporary file in the output's folder, is flushed to disk, then renamed over
 the output (``os.replace``, atomic on one file system): a reader never sees half a file. Without
 ``force`` the rename is a hard link, which fails if the output has appeared in the meantime.
+``force`` replaces only a regular file or a symlink to one, never a device, a FIFO, a socket or a
+folder. The temporary name is short (``.lc`` and 8 characters), so an output name up to the
+file system's limit works, and the temporary file is removed however the write ends (the command
+turns SIGTERM and SIGHUP into an exception, so this holds for them too).
 """
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
 from pathlib import Path
 
@@ -16,6 +21,22 @@ from linecalc.errors import InputError
 
 class OutputExistsError(InputError, FileExistsError):
     """The output exists and ``force`` was not given."""
+
+
+class OutputNotFileError(InputError):
+    """The output exists and is not a regular file (a device, a FIFO, a folder): never replaced."""
+
+    def __init__(self, path, what):
+        self.what = what
+        super().__init__(f"{path} is {what}, not a regular file; it is never replaced")
+
+
+class OutputWriteError(InputError):
+    """The system refused to write the output (no such folder, no permission, name too long, disk full)."""
+
+    def __init__(self, path, reason):
+        self.reason = reason
+        super().__init__(f"{path}: cannot be written: {reason}")
 
 
 class OutputIsInputError(InputError):
@@ -46,13 +67,31 @@ def check_output(path, *, force=False, protected=()) -> Path:
     Raises `OutputIsInputError` or `OutputExistsError`.
     """
     path = Path(path)
+    if not str(path) or path.name in ("", ".", ".."):
+        raise OutputWriteError(path, "an output needs a file name")
     for other in protected:
         other = Path(other)
         if _same_file(path, other) or path.resolve() == other.resolve():
             raise OutputIsInputError(path, other)
-    if path.exists() and not force:
-        raise OutputExistsError(path)
+    if os.path.lexists(path):
+        if not force:
+            raise OutputExistsError(path)
+        try:
+            mode = os.stat(path).st_mode
+        except OSError:  # a symlink that leads nowhere: replacing it destroys nothing
+            mode = stat.S_IFREG
+        if not stat.S_ISREG(mode):
+            raise OutputNotFileError(path, _kind(mode))
     return path
+
+
+def _kind(mode) -> str:
+    for test, name in ((stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a FIFO (named pipe)"),
+                       (stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device"),
+                       (stat.S_ISSOCK, "a socket")):
+        if test(mode):
+            return name
+    return "not a regular file"
 
 
 def write_atomically(path, write, *, binary=False, force=False, protected=()) -> Path:
@@ -79,14 +118,25 @@ def write_atomically(path, write, *, binary=False, force=False, protected=()) ->
 
     Raises
     ------
-    OutputIsInputError, OutputExistsError
+    OutputIsInputError, OutputExistsError, OutputNotFileError
         As `check_output`.
-    OSError
-        The system refused (no such folder, no permission, disk full); no file is left behind.
+    OutputWriteError
+        The system refused (no such folder, no permission, a name too long, disk full); no file
+        is left behind.
     """
     path = check_output(path, force=force, protected=protected)
     folder = path.parent if str(path.parent) else Path(".")
-    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    try:
+        _write(path, folder, write, binary, force)
+    except OSError as exc:
+        if isinstance(exc, InputError):
+            raise
+        raise OutputWriteError(path, exc.strerror or str(exc)) from None
+    return path
+
+
+def _write(path, folder, write, binary, force):
+    handle, temporary = tempfile.mkstemp(prefix=".lc", suffix=".tmp", dir=folder)
     try:
         with (os.fdopen(handle, "wb") if binary else os.fdopen(handle, "w", encoding="ascii", newline="\n")) as out:
             write(out)
@@ -105,6 +155,5 @@ def write_atomically(path, write, *, binary=False, force=False, protected=()) ->
                     raise OutputExistsError(path) from None
                 os.replace(temporary, path)
     finally:
-        if os.path.exists(temporary):
+        if os.path.lexists(temporary):
             os.unlink(temporary)
-    return path

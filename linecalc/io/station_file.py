@@ -13,6 +13,7 @@ import numpy as np
 from linecalc.physics import bands as band_table
 from linecalc.studies.station import CompareSpec, Station
 from linecalc.physics.exposure import MODE_DUTY_FACTORS, duty_factor
+from linecalc.io import input_file
 from linecalc.io.feed_file import build_feed, read_cable
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
 from linecalc.errors import StationError
@@ -177,7 +178,7 @@ def _rows(doc, ctx):
             raise where.error("frequencies is a list such as [7.15 MHz, 14.2 MHz]")
         for i in range(len(values)):
             frequency = quantity(values, i, where, "Hz")
-            labels.append(f"{frequency / 1e6:g} MHz")
+            labels.append(f"{frequency / 1e6:.9g} MHz")  # 9 digits: 7.2000001 MHz is not shown as 7.2
             frequencies.append(frequency)
             edges.append(None)
     if not labels:
@@ -233,7 +234,8 @@ def station_from_document(doc, file="<station>") -> Station:
     outside = outside_table(antenna.frequency_hz, frequency_hz)
     if outside.any():
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
-        asked = ", ".join(f"{label} ({f / 1e6:g} MHz)" for label, f, out in zip(labels, frequency_hz, outside) if out)
+        asked = ", ".join(label if label == f"{f / 1e6:.9g} MHz" else f"{label} ({f / 1e6:.9g} MHz)"
+                          for label, f, out in zip(labels, frequency_hz, outside) if out)
         raise table_ctx.error(f"{asked} outside the antenna table, which spans {span}; it is never extrapolated")
     feed = build_feed(doc["feed"], ctx.child(doc, "feed"), z_ref)
     if measured_at is not None:
@@ -265,19 +267,37 @@ def input_files(path) -> list[Path]:
     """
     path = Path(path)
     try:
-        doc = load_yaml_text(path.read_text(encoding="utf-8"), path)
-    except (OSError, UnicodeDecodeError, StationError):
+        doc = load_yaml_text(read_station_text(path), path)
+    except StationError:
         return [path]
     antenna = doc.get("antenna") if isinstance(doc, dict) else None
     name = antenna.get("touchstone") if isinstance(antenna, dict) else None
+    if isinstance(name, int) and not isinstance(name, bool):
+        name = str(name)  # touchstone: 123 names the file 123, as the loader reads it
     return [path] + ([path.parent / name.strip()] if isinstance(name, str) and name.strip() else [])
 
 
 def load_station(path) -> Station:
     """Read and validate a station file."""
     path = Path(path)
+    return station_from_document(load_yaml_text(read_station_text(path), path), path)
+
+
+def read_station_text(path) -> str:
+    """The text of a station file: a regular file of at most `MAX_STATION_BYTES`, in UTF-8.
+
+    Raises `StationError`: at line 0 for a file that cannot be read (naming what it is), at the
+    line of the first byte that is not UTF-8 (with its column).
+    """
+    path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise StationError(path, 0, f"cannot read the station file: {exc.strerror if isinstance(exc, OSError) else exc}") from None
-    return station_from_document(load_yaml_text(text, path), path)
+        data = input_file.read_bytes(path, input_file.MAX_STATION_BYTES)
+    except OSError as exc:
+        raise StationError(path, 0, f"cannot read the station file: {exc.strerror or exc}") from None
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data.count(b"\n", 0, exc.start) + 1
+        column = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise StationError(path, line, f"byte 0x{data[exc.start]:02x} at column {column} is not UTF-8; "
+                                       "a station file is UTF-8 text") from None

@@ -7,16 +7,20 @@ is done by hand (a Touchstone 1.x ``# Hz S RI R 50`` file is a few lines of text
 """
 from __future__ import annotations
 
+import io
 import re
 from pathlib import Path
 
 import numpy as np
 from linecalc.errors import InputError
-from linecalc.io import atomic
+from linecalc.io import atomic, input_file
 
 UNITS_HZ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
 PARAMETERS = ("s", "y", "z")
 FORMATS = ("ma", "db", "ri")
+# The station file's limits, applied to a sweep too (README, Errors and exit status).
+MAX_FREQUENCY_HZ = 1e12
+MAX_REFERENCE_OHM = 1e9
 # Touchstone 1.x names the port count in the extension (.s1p, and .y1p/.z1p by old custom).
 _EXTENSION = re.compile(r"\.[syzgh](\d+)p$", re.IGNORECASE)
 
@@ -45,16 +49,18 @@ class TouchstoneWriteError(InputError):
 def _read_text(path: Path) -> str:
     if not path.exists():
         raise TouchstoneError(path, None, "no such file")
-    if path.is_dir():
-        raise TouchstoneError(path, None, "is a folder, not a Touchstone file")
     try:
-        data = path.read_bytes()
+        data = input_file.read_bytes(path, input_file.MAX_TOUCHSTONE_BYTES)
+    except input_file.InputFileError as exc:
+        raise TouchstoneError(path, None, exc.reason) from None
     except OSError as exc:
         raise TouchstoneError(path, None, f"cannot be read: {exc.strerror}") from None
     try:  # the same encodings scikit-rf tries
-        return data.decode("utf-8-sig")
+        text = data.decode("utf-8-sig")
     except UnicodeDecodeError:
-        return data.decode("latin-1")
+        text = data.decode("latin-1")
+    # CR-LF, LF and a lone CR (old editors) each end a line, as an editor counts them
+    return text.replace("\r\n", "\n").replace("\r", "\n")
 
 
 def _scan(path: Path, text: str):
@@ -81,18 +87,27 @@ def _scan(path: Path, text: str):
                                            "(.s1p) file is needed")
     option_line, in_data, ended = None, not version2, False
     declared, rows, previous = None, [], None
+    unit_hz, data_format = UNITS_HZ["ghz"], "ma"  # the defaults of a file without an option line
     for number, raw in enumerate(lines, start=1):
         line = raw.partition("!")[0].strip()
         if not line:
             continue
         lower = line.lower()
         if lower.startswith("#"):
+            if rows:
+                raise TouchstoneError(path, number, f"an option line after the data (line {rows[0]}): it must "
+                                                    "come before the first data row")
             if option_line is None:
                 option_line = number
-                _check_option_line(path, number, lower)
+                unit_hz, data_format = _check_option_line(path, number, lower)
             continue
         if lower.startswith("["):
             keyword, _, value = lower.partition("]")
+            if keyword == "[version" and value.split() not in (["2.0"], ["2.1"]):
+                raise TouchstoneError(path, number, f"[Version] {line.partition(']')[2].strip() or '(none)'}: linecalc reads "
+                                                    "Touchstone 1.x files and 2.0 or 2.1 files")
+            if keyword == "[reference" and value.strip():
+                _check_reference(path, number, value.split())
             if keyword == "[number of ports" and value.split() != ["1"]:
                 raise TouchstoneError(path, number, f"[Number of Ports] is {value.strip() or 'missing'}; "
                                                     "a one-port file is needed")
@@ -124,6 +139,11 @@ def _scan(path: Path, text: str):
                                                 "3 (frequency and two values)")
         if values[0] <= 0:
             raise TouchstoneError(path, number, f"frequency must be above zero, got {values[0]:g}")
+        if values[0] * unit_hz > MAX_FREQUENCY_HZ:
+            raise TouchstoneError(path, number, f"frequency {values[0]:g} is beyond what linecalc handles "
+                                                f"(at most {MAX_FREQUENCY_HZ:g} Hz, as in a station file)")
+        if data_format == "ma" and values[1] < 0:
+            raise TouchstoneError(path, number, f"a magnitude (MA format) is 0 or more, got {values[1]:g}")
         if previous is not None and values[0] <= previous[1]:
             raise TouchstoneError(path, number, f"frequencies must increase: {values[0]:g} follows {previous[1]:g} "
                                                 f"(line {previous[0]})")
@@ -157,6 +177,24 @@ def _check_option_line(path, number, lower):
         if resistance is None or not resistance > 0 or not np.isfinite(resistance):
             raise TouchstoneError(path, number, "option line: the reference must be 'R' and one positive "
                                                 f"resistance, got {' '.join(rest)!r}")
+        if resistance > MAX_REFERENCE_OHM:
+            raise TouchstoneError(path, number, f"option line: a reference of {resistance:g} ohm is beyond what "
+                                                f"linecalc handles (at most {MAX_REFERENCE_OHM:g} ohm)")
+    unit = tokens[0] if tokens else "ghz"
+    data_format = tokens[2] if len(tokens) > 2 else "ma"
+    return UNITS_HZ[unit], data_format
+
+
+def _check_reference(path, number, tokens):
+    """A 2.x ``[Reference]`` line: one positive resistance [ohm] within `MAX_REFERENCE_OHM`."""
+    for token in tokens:
+        try:
+            value = float(token)
+        except ValueError:
+            raise TouchstoneError(path, number, f"[Reference]: not a number: {token!r}") from None
+        if not 0 < value <= MAX_REFERENCE_OHM:
+            raise TouchstoneError(path, number, f"[Reference]: a resistance above 0 and at most "
+                                                f"{MAX_REFERENCE_OHM:g} ohm, got {token!r}")
 
 
 def read_one_port(path):
@@ -208,7 +246,9 @@ def read_one_port(path):
         raise TouchstoneError(path, where, "reading Touchstone files needs scikit-rf "
                                            "(pip install scikit-rf)") from None
     try:
-        parsed = Touchstone(str(path))
+        text_file = io.StringIO(text)  # the text checked above, not the file read a second time
+        text_file.name = str(path)
+        parsed = Touchstone(text_file)
     except Exception as exc:  # noqa: BLE001 - whatever the parser raises is a bad file, named here
         raise TouchstoneError(path, where, f"scikit-rf cannot read it: {exc}") from None
     if parsed.rank != 1 or len(parsed.f) != len(rows):
@@ -310,5 +350,9 @@ def write_one_port(path, frequency_hz, z_ohm, z_ref_ohm=50.0, comment="", *, for
         raise TouchstoneWriteError(path, f"is an input of this run ({exc.other}); it is never overwritten") from None
     except atomic.OutputExistsError:
         raise TouchstoneWriteError(path, "exists; use --force to replace it") from None
+    except atomic.OutputWriteError as exc:
+        raise TouchstoneWriteError(path, f"cannot be written: {exc.reason}") from None
+    except atomic.OutputNotFileError as exc:
+        raise TouchstoneWriteError(path, f"is {exc.what}, not a regular file; it is never replaced") from None
     except OSError as exc:
         raise TouchstoneWriteError(path, f"cannot be written: {exc.strerror}") from None

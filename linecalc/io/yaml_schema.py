@@ -7,6 +7,7 @@ from __future__ import annotations
 import math
 import re
 import sys
+import unicodedata
 
 import numpy as np
 import yaml
@@ -239,6 +240,10 @@ def string(parent, key, ctx):
         value = str(value)
     if not isinstance(value, str) or not value.strip():
         raise ctx.child(parent, key).error(f"expected text, got {value!r}")
+    control = [c for c in value if unicodedata.category(c) in ("Cc", "Cf")]
+    if control:  # a terminal escape code in a name would reach every table and warning line
+        raise ctx.child(parent, key).error(f"a name or label holds no control or format characters, got "
+                                           f"{printable(repr(value))} ({printable(control[0])})")
     return value.strip()
 
 

@@ -56,8 +56,10 @@ def _target(path, force):
     path = Path(path)
     if path.suffix.lower() not in FORMATS:
         raise PlotInputError(f"a plot file ends in .png or .svg, got {str(path)!r}")
-    if path.exists() and not force:
-        raise PlotExistsError(errno.EEXIST, "the plot file exists (force to overwrite it)", str(path))
+    try:
+        atomic.check_output(path, force=force)  # also: never over a device, a FIFO or a folder
+    except atomic.OutputExistsError:
+        raise PlotExistsError(errno.EEXIST, "the plot file exists (force to overwrite it)", str(path)) from None
     return path
 
 
@@ -501,3 +503,5 @@ def draw(data, path, *, force=False):
         raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it ({exc})") from None
     except (PlotInputError, FileNotFoundError) as exc:
         raise figure_data.PlotProblem(f"{path}: {exc}") from None
+    except (atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
+        raise figure_data.PlotProblem(str(exc)) from None

@@ -11,6 +11,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from linecalc.studies.json_values import finite_or_none, json_list
+from linecalc.studies import work_size
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
 from linecalc.physics.swr_curve import SweepStatistics, sweep_statistics
@@ -93,6 +94,7 @@ def solve_band_sweeps(station: Station, points: int) -> tuple[BudgetResult, list
     points' tuners that cannot match."""
     if points < 2:
         raise BudgetError("a sweep needs at least 2 points per band", "bands")
+    work_size.check_sweep(station, points, f"a sweep of {points:,} points per band")
     labels, frequency_hz, slices = sweep_points(station, points)
     table_hz = station.antenna.frequency_hz
     outside = rows_outside_antenna_data(station, [frequency_hz[part] for part in slices])

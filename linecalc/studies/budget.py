@@ -17,6 +17,7 @@ from linecalc.physics.source import RadioDrive, port_mismatch_loss_db, radio_dri
 from linecalc.physics.exposure import CAUTIONS
 from linecalc.studies.json_values import finite_or_none, json_value, pair
 from linecalc.studies.measured import PHASE_SAMPLES, measured_antenna_load
+from linecalc.studies import work_size
 from linecalc.studies.station import BudgetError, Station
 
 
@@ -334,6 +335,7 @@ def solve_budget(station: Station) -> BudgetResult:
     f = np.asarray(station.frequency_hz, dtype=float)
     z_ref = station.reference_impedance_ohm
     swr_only = isinstance(station.antenna, SwrTable)  # the phase of the antenna is unknown
+    work_size.check_station(station)
 
     measured_facts, measured_warnings = {}, []
     if isinstance(station.antenna, MeasuredAntenna):

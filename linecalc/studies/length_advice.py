@@ -10,7 +10,8 @@ import numpy as np
 
 from linecalc.physics.exposure import CAUTIONS
 from linecalc.studies.json_values import finite_or_none
-from linecalc.physics.length_scan import AdvisorInputError, LengthAdvice, advise_length, find_windows
+from linecalc.physics.length_scan import MAX_EVALUATIONS, AdvisorInputError, LengthAdvice, advise_length, find_windows
+from linecalc.studies import work_size
 from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
 from linecalc.studies.compare import CompareError, main_line_index
 from linecalc.physics.loads import ImpedanceTable
@@ -95,6 +96,16 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
     if len(tuners) != 1 or tuners[0] > index:
         raise BudgetError(f"the length advisor needs exactly one tuner on the radio side of {feed[index].label}",
                           "feed")
+    if points_per_band < 2:
+        raise AdvisorInputError(f"points_per_band must be 2 or more (the edges), got {points_per_band}")
+    points = work_size.row_points(station, points_per_band)
+    if points > MAX_EVALUATIONS and not allow_large_scan:  # even one length: refused before any array is built
+        raise AdvisorInputError(f"{points:,} frequencies (points per band x rows) pass the {MAX_EVALUATIONS:,} "
+                                "evaluations of a scan even at a single length (allow_large_scan to try)")
+    try:
+        work_size.check_station(station, points, f"{points_per_band:,} points per band")
+    except work_size.WorkTooLarge as exc:
+        raise AdvisorInputError(str(exc)) from None
     f, rows = scan_frequencies(station, points_per_band)
     names = sorted(rows_outside_antenna_data(station, [f[rows == k] for k in range(len(station.labels))]))
     if names:

@@ -23,7 +23,7 @@ def test_cli_compare_formats(doublet, linecalc_command):
 @pytest.mark.parametrize("args, words", [
     (["--cable", "rg-2133"], "--cable: unknown cable id 'rg-2133'"),
     (["--lengths", "3 W"], "--lengths:"),
-    (["--lengths", "0 m"], "--lengths: every length must be greater than zero"),
+    (["--lengths", "0 m"], "--lengths: a length from 1e-06 m to 1e+06 m"),
 ])
 def test_cli_compare_bad_options_exit_2(args, words, dipole, linecalc_command):
     result = linecalc_command("compare", dipole, *args)

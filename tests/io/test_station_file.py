@@ -436,7 +436,7 @@ def test_a_file_that_cannot_be_read_is_a_station_error(tmp_path):
     assert str(info.value).startswith(f"{missing}:0: cannot read the station file")
     latin = tmp_path / "latin.yaml"
     latin.write_bytes(b"name: caf\xe9\n")
-    with pytest.raises(StationError, match="cannot read the station file"):
+    with pytest.raises(StationError, match=r"latin.yaml:1: byte 0xe9 at column 10 is not UTF-8"):
         load_station(latin)
 
 
@@ -580,3 +580,13 @@ def test_inline_copper_clad_steel_inner_by_its_cladding():
         loss("copper", ", inner_conductivity_iacs: 40")
     with pytest.raises(StationError, match="inner_conductivity_iacs"):
         loss("copper-clad steel", ", inner_conductivity_iacs: 5")
+
+
+def test_a_frequency_just_outside_the_table_is_shown_with_its_digits(data_path):
+    text = data_path("hilltop-dipole.yaml").read_text().replace("frequencies: [7.0 MHz, 7.2 MHz]",
+                                                                "frequencies: [7.0 MHz, 7.2500001 MHz]")
+    with pytest.raises(StationError) as info:
+        parse_station_text(text, "near.yaml")
+    # the table ends at 7.25 MHz (its last row, in the test station): 7.2500001 MHz is 0.1 Hz past it
+    assert "7.2500001 MHz outside the antenna table" in str(info.value)
+    assert "(7.25 MHz)" not in str(info.value)

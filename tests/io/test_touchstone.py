@@ -143,6 +143,19 @@ BAD_FILES = {
     "bad_unit": ("a.s1p", "# MHZZ S RI R 50\n7.0 0.1 0\n", 1, "not a frequency unit"),
     "negative_reference": ("a.s1p", "# MHz S RI R -50\n7.0 0.1 0\n", 1, "one positive resistance"),
     "unknown_name_without_version": ("a.txt", "# MHz S RI R 50\n7.0 0.1 0\n", 1, "not a Touchstone one-port"),
+    # the station file's limits hold in a sweep too (README, Errors and exit status)
+    "frequency_beyond_1_thz": ("a.s1p", "# Hz S RI R 50\n7e6 0.1 0\n1e13 0.1 0\n", 3, "at most 1e+12 Hz"),
+    "frequency_beyond_1_thz_in_ghz": ("a.s1p", "# GHz S RI R 50\n1001 0.1 0\n", 2, "at most 1e+12 Hz"),
+    "reference_1e300": ("a.s1p", "# MHz S RI R 1e300\n7.0 0.1 0\n", 1, "at most 1e+09 ohm"),
+    "v2_reference_not_a_number": ("a.ts", ("[Version] 2.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Reference] abc\n"
+                                           "[Network Data]\n7.0 0.1 0\n[End]\n"), 4, "[Reference]: not a number"),
+    "v2_reference_1e300": ("a.ts", ("[Version] 2.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Reference] 1e300\n"
+                                    "[Network Data]\n7.0 0.1 0\n[End]\n"), 4, "at most 1e+09 ohm"),
+    "option_line_after_data": ("a.s1p", "7.0 0.1 0\n# MHz S RI R 50\n7.1 0.1 0\n", 2, "an option line after the data"),
+    "negative_ma_magnitude": ("a.s1p", "# MHz S MA R 50\n7.0 -0.5 30\n", 2, "magnitude (MA format) is 0 or more"),
+    "negative_magnitude_default_format": ("a.s1p", "# MHz S\n7.0 -0.5 30\n", 2, "magnitude (MA format)"),
+    "version_3": ("a.ts", "[Version] 3.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Network Data]\n7.0 0.1 0\n[End]\n",
+                  1, "[Version] 3.0: linecalc reads Touchstone 1.x files and 2.0 or 2.1 files"),
 }
 
 

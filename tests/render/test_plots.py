@@ -263,7 +263,9 @@ def test_refuses_to_overwrite_unless_forced(tmp_path, coax_result):
 def test_bad_format_and_missing_folder(tmp_path, coax_result):
     with pytest.raises(plots.PlotInputError):
         plots.plot_loss_budget(tmp_path / "budget.pdf", coax_result)
-    with pytest.raises(FileNotFoundError):
+    from linecalc.io.atomic import OutputWriteError
+
+    with pytest.raises(OutputWriteError, match="No such file or directory"):
         plots.plot_loss_budget(tmp_path / "missing" / "budget.png", coax_result)
     assert list(tmp_path.iterdir()) == []
 
