@@ -10,11 +10,11 @@ $(BIN)/python:
 	$(BIN)/python -m pip install --quiet --upgrade pip
 
 $(VENV)/.installed: pyproject.toml | $(BIN)/python
-	$(BIN)/python -m pip install --quiet -e .
+	$(BIN)/python -m pip install --quiet -e '.[antenna]'
 	touch $@
 
 $(VENV)/.installed-test: pyproject.toml | $(BIN)/python
-	$(BIN)/python -m pip install --quiet -e '.[test]'
+	$(BIN)/python -m pip install --quiet -e '.[test,antenna]'
 	touch $(VENV)/.installed $@
 
 demo: $(VENV)/.installed

@@ -18,6 +18,11 @@ def _swr_text(swr):
     return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
 
 
+def _impedance_text(z):
+    """An impedance [ohm] as R+jX."""
+    return f"{z.real:.1f}{'+' if z.imag >= 0 else '-'}j{abs(z.imag):.1f}"
+
+
 def _tuner_cells(element, i):
     """A tuner's setting on one row: arrangement, part values and whether it matched."""
     readings = element.readings
@@ -86,6 +91,13 @@ def budget_table(result: BudgetResult) -> str:
         rows = [[label, f"{result.measured['sensitivity'][i]:.2f}"] for i, label in enumerate(result.labels)]
         lines += ["", "The measured sweep moved to the antenna; a reflection error at the instrument is multiplied by:",
                   tabulate(rows, headers=["row", "error multiplier"], disable_numparse=True)]
+    if result.wire:
+        w = result.wire
+        rows = [[label, _impedance_text(result.z_antenna_ohm[i]), f"{w['peak_gain_dbi'][i]:.1f}",
+                 f"{w['wire_loss_db'][i]:.3f}", f"{w['wire_heat_w'][i]:.2f}"] for i, label in enumerate(result.labels)]
+        lines += ["", "The wire antenna, solved by the method of moments (NEC-2; ground loss not counted as wire loss):",
+                  tabulate(rows, headers=["row", "feedpoint ohm", "peak gain dBi", "wire loss dB", "wire heat W"],
+                           disable_numparse=True, stralign="right")]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE]
     lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
@@ -109,7 +121,8 @@ def safety_table(result: BudgetResult) -> str:
     and the cautions."""
     lines = [f"{result.station}: {result.radio_power_w:g} W PEP from the radio, mode {result.mode} "
              f"(duty factor {result.duty_factor:g}), transmitting {100 * result.transmit_fraction:g} % of the time, "
-             f"antenna gain {result.antenna_gain_dbi:g} dBi", ""]
+             + (f"antenna gain {result.antenna_gain_dbi:g} dBi" if result.antenna_gain_dbi is not None
+                else "antenna gain per row from the wire model (its peak over the sky)"), ""]
     for e in result.elements:
         if e.kind == "line":
             r = e.readings
@@ -133,14 +146,15 @@ def safety_table(result: BudgetResult) -> str:
     if x:
         missing = [math.nan] * len(result.labels)
         near = x.get("near_field_m", missing)
-        body = [[label, f"{x['power_average_w'][i]:.1f}", _watts(x.get("eirp_w", missing)[i]),
+        body = [[label, *([f"{result.wire['peak_gain_dbi'][i]:.1f}"] if result.wire else []),
+                 f"{x['power_average_w'][i]:.1f}", _watts(x.get("eirp_w", missing)[i]),
                  *(_distance(x.get(key, missing)[i], near[i])
                    for key in ("fcc_uncontrolled_m", "fcc_controlled_m", "icnirp_general_public_m")),
                  _distance(near[i], 0.0)]
                 for i, label in enumerate(result.labels)]
         lines += ["RF exposure: least distance from the antenna that meets the limits (far-field estimate with "
                   "ground reflection, FCC OET Bulletin 65 section 2):",
-                  tabulate(body, headers=["row", "avg W at antenna", "avg EIRP W", "FCC general public m",
+                  tabulate(body, headers=["row", *(["gain dBi"] if result.wire else []), "avg W at antenna", "avg EIRP W", "FCC general public m",
                                           "FCC occupational m", "ICNIRP 2020 public m", "near field within m"],
                            disable_numparse=True, stralign="right"),
                   "* inside the reactive near field (about a sixth of a wavelength), where the far-field formula "
