@@ -198,7 +198,13 @@ def wires(antenna):
 
 
 def check_geometry(antenna):
-    """Refuse a geometry the engine cannot model; `GeometryError` names the key at fault."""
+    """Refuse a geometry the engine cannot model; `GeometryError` names the key at fault.
+
+    References
+    ----------
+    Burke and Poggio, NEC-2 User's Guide (1981), section 2: segments over 2 radii long (the
+    extended thin-wire kernel), wires above a ground plane (or ending on a perfect one).
+    """
     if antenna.shape not in SHAPES:
         raise GeometryError(f"shape is one of {', '.join(SHAPES)}, got {antenna.shape!r}", "shape")
     if not 0 < antenna.feed_at < 1:

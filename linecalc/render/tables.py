@@ -273,3 +273,36 @@ def advice_table(result, top) -> str:
     return "\n".join(lines) + "\n"
 
 
+def antenna_table(report) -> str:
+    """A wire antenna (an `AntennaReport`) per row, and the cut length if one was asked for."""
+    line = report.line_label
+    headers = ["row", "MHz", "feedpoint ohm", f"SWR {report.reference_impedance_ohm:g} ohm"]
+    if line is not None:
+        headers.append(f"SWR on {line}")
+    headers += ["nearest resonance MHz", "peak gain dBi", "wire loss dB"]
+    body = []
+    for i, label in enumerate(report.labels):
+        row = [label, f"{report.frequency_hz[i] / 1e6:.4g}", _impedance_text(report.impedance_ohm[i]),
+               _swr_text(report.swr_reference[i])]
+        if line is not None:
+            row.append(_swr_text(report.swr_line[i]))
+        resonance = report.resonance_hz[i]
+        row += [f"{resonance / 1e6:.3f}" if math.isfinite(resonance) else "none within 20 %",
+                f"{report.peak_gain_dbi[i]:.1f}", f"{report.wire_loss_db[i]:.3f}"]
+        body.append(row)
+    lines = [f"{report.station}: {report.shape}, {report.length_m:g} m, solved by the method of moments (NEC-2)", "",
+             tabulate(body, headers=headers, disable_numparse=True, stralign="right"), "",
+             "Peak gain is the largest on a 5 x 10 degree grid of the sky (a lobe may peak up to about 0.2 dB "
+             "higher); the model leaves out the feedline, insulators and nearby objects."]
+    cut = report.cut
+    if cut is not None:
+        feet = cut.rule_of_thumb_m / 0.3048
+        rule = "468" if report.shape != "vertical" else "234"
+        found = (f"{cut.length_m:.2f} m ({cut.length_m / 0.3048:.1f} ft), R {cut.resistance_ohm:.1f} ohm there"
+                 if cut.converged else f"not found (last try {cut.length_m:.2f} m)")
+        lines += ["", f"Length for resonance at {cut.frequency_hz / 1e6:g} MHz, this shape, height, wire and ground: "
+                  f"{found}; rule of thumb {rule}/f(MHz) ft: {cut.rule_of_thumb_m:.2f} m ({feet:.1f} ft). "
+                  "Cut a little long and trim: the real wire's surroundings move the resonance."]
+    lines += ["", "Keep antennas well clear of power lines; lightning protection and grounding follow local "
+              "code and licensed practice."]
+    return "\n".join(lines) + "\n"
