@@ -48,6 +48,10 @@ LARGEST_SEGMENT_WAVELENGTHS = 0.1
 THETA_STEP_DEG = 5.0
 PHI_STEP_DEG = 10.0
 
+# The most segments a model may have: the engine's matrix grows with their square (2,000
+# segments: 64 MB and seconds per frequency), so a larger model is refused, not attempted.
+MAX_SEGMENTS = 2000
+
 INSTALL_HINT = "python -m pip install 'linecalc[antenna]' (in the clone: .venv/bin/python -m pip install -e '.[antenna]')"
 
 SHAPES = ("dipole", "inverted-v", "vertical")
@@ -222,9 +226,15 @@ def check_geometry(antenna):
     if delta < EXTENDED_KERNEL_RATIO * antenna.radius_m:
         raise GeometryError(f"the wire is too thick for its segments: a {delta:.3g} m segment is less than "
                             f"{EXTENDED_KERNEL_RATIO:g} wire radii ({antenna.radius_m:.3g} m) long", "diameter")
+    model = wires(antenna)[0]
+    segments = sum(count for *_, count in model)
+    if segments > MAX_SEGMENTS:
+        raise GeometryError(f"the model would need {segments} segments at {antenna.highest_frequency_hz / 1e6:g} MHz; "
+                            f"at most {MAX_SEGMENTS} are solved (a wire this long is beyond what this model is for)",
+                            "radials" if antenna.radial_count else "length")
     if antenna.ground.kind == "free-space":
         return
-    lowest = min(min(a[2], b[2]) for a, b, _ in wires(antenna)[0])
+    lowest = min(min(a[2], b[2]) for a, b, _ in model)
     on_perfect_ground = antenna.shape == "vertical" and antenna.ground.kind == "perfect" and antenna.height_m == 0
     if on_perfect_ground and antenna.radial_count:
         raise GeometryError("radials of a vertical standing on perfect ground would lie in the ground: "

@@ -85,6 +85,7 @@ def test_exposure_uses_the_model_gain_per_row(doublet):
     ("    ground: perfect\n", "    ground: perfect\n    feed_at: 1.2\n"),
     ("    length: 2 x 10.5 m\n", "    length: 0 m\n"),
     ("    ground: perfect\n", "    ground: perfect\n    diameter: 2 m\n"),
+    ("    length: 2 x 10.5 m\n", "    length: 2 x 10 km\n"),  # beyond the segment limit: refused, not run
 ])
 def test_bad_geometry_is_exit_2_with_file_and_line(cli, write_file, one_error_line, replace, key):
     text = DOUBLET.replace(replace, key)
