@@ -10,17 +10,19 @@ $(BIN)/python:
 	$(BIN)/python -m pip install --quiet --upgrade pip
 
 $(VENV)/.installed: pyproject.toml | $(BIN)/python
-	$(BIN)/python -m pip install --quiet -e .
+	$(BIN)/python -m pip install --quiet -e '.[antenna]'
 	touch $@
 
 $(VENV)/.installed-test: pyproject.toml | $(BIN)/python
-	$(BIN)/python -m pip install --quiet -e '.[test]'
+	$(BIN)/python -m pip install --quiet -e '.[test,antenna]'
 	touch $(VENV)/.installed $@
 
 demo: $(VENV)/.installed
 	$(BIN)/linecalc budget stations/hilltop-dipole.yaml
 	$(BIN)/linecalc budget stations/orchard-doublet.yaml
 	$(BIN)/linecalc compare stations/tuner-in-shack.yaml --tuner-positions
+	$(BIN)/linecalc budget stations/meadow-doublet-planned.yaml
+	$(BIN)/linecalc antenna stations/garden-inverted-v.yaml --cut-for 7.1MHz
 
 test: $(VENV)/.installed-test
 	$(BIN)/python -m pytest -q
@@ -34,6 +36,7 @@ bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_advisor.py
 	$(BIN)/python bench/bench_scale.py
 	$(BIN)/python bench/bench_startup.py
+	$(BIN)/python bench/bench_wire.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info linecalc.egg-info

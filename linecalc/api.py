@@ -12,7 +12,7 @@ from pathlib import Path
 from linecalc.errors import InputError, StationError
 from linecalc.io import cable_library, station_file
 from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
-from linecalc.studies import budget, length_advice, measured
+from linecalc.studies import antenna_report, budget, length_advice, measured
 from linecalc.studies import compare as compare_study
 from linecalc.studies import figure_data, work_size
 from linecalc.studies.band_sweep import solve_band_sweeps
@@ -150,6 +150,14 @@ def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=
                                             progress=progress, max_loss_db=max_loss_db)
 
 
+def solve_antenna(station: Station, *, cut_for_hz=None) -> antenna_report.AntennaReport:
+    """A wire antenna on its own, row by row: impedance, SWR against the reference and the line,
+    nearest resonance, peak gain, wire loss; with ``cut_for_hz`` [Hz] also the length to cut
+    for resonance there beside the 468/f rule of thumb: ``linecalc antenna [--cut-for F]``."""
+    with errors_located(station):
+        return antenna_report.antenna_report(station, cut_for_hz)
+
+
 def list_cables(frequency_hz=LISTING_FREQUENCIES_HZ) -> CableListing:
     """The cable library with each cable's matched loss at ``frequency_hz`` [Hz]: ``linecalc cables``."""
     return cable_listing(cable_library.load_library().values(), frequency_hz)
@@ -180,5 +188,5 @@ def input_files(station: Station) -> list[Path]:
     return station_file.input_files(station.source_file)
 
 
-__all__ = ["StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables", "load_station", "solve_advice",
-           "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]
+__all__ = ["StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables", "load_station",
+           "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]

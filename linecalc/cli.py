@@ -93,6 +93,13 @@ def build_parser() -> argparse.ArgumentParser:
     compare.add_argument("--format", choices=("table", "json", "csv"), default="table",
                          help="output format (default: table)")
 
+    antenna = commands.add_parser("antenna", help="a wire antenna on its own: impedance, SWR, nearest resonance, "
+                                  "peak gain and wire loss per band; the length to cut for resonance")
+    antenna.add_argument("station", help="station file whose antenna is a wire: {...}")
+    antenna.add_argument("--cut-for", metavar="FREQUENCY",
+                         help="also give the length to cut for resonance at this frequency, such as 14.1MHz")
+    antenna.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+
     cables = commands.add_parser("cables", help="list the cable library with its matched loss")
     cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
     return parser
@@ -338,6 +345,27 @@ def _run_plot(args) -> int:
     return EXIT_OK
 
 
+def _run_antenna(args) -> int:
+    from linecalc import api
+    from linecalc.io.units import UnitError, parse_quantity
+    from linecalc.render import json_text, tables
+
+    cut_for_hz = None
+    if args.cut_for is not None:
+        try:
+            cut_for_hz = parse_quantity(args.cut_for, "Hz")
+        except UnitError as exc:
+            raise OptionError(f"--cut-for: {exc}") from None
+        if not 1e5 <= cut_for_hz <= 3e9:
+            raise OptionError(f"--cut-for: a frequency from 100 kHz to 3 GHz, got {args.cut_for!r}")
+    result = api.solve_antenna(api.load_station(args.station), cut_for_hz=cut_for_hz)
+    if args.format == "json":
+        sys.stdout.write(json_text.to_json(result.to_dict()))
+    else:
+        sys.stdout.write(tables.antenna_table(result))
+    return EXIT_OK
+
+
 def _run_cables(args) -> int:
     from linecalc import api
     from linecalc.render import json_text, tables
@@ -417,7 +445,7 @@ def _main(args) -> int:
             warnings.simplefilter("error", RuntimeWarning)
             return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
                     "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
-                    "cables": _run_cables}[args.command](args)
+                    "antenna": _run_antenna, "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT

@@ -20,6 +20,8 @@ from linecalc.errors import StationError
 from linecalc.io.yaml_schema import (Context, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
                      string)
 from linecalc.io.units import UnitError, parse_impedance
+from linecalc.io.wire_file import read_wire
+from linecalc.physics.wire_antenna import WireAntenna
 
 
 # Defaults of the radio and antenna keys (documented in the README where the keys are):
@@ -83,12 +85,22 @@ def _touchstone(doc, ctx, file):
     return ImpedanceTable(frequency_hz, z_ohm), ctx.child(doc, "touchstone"), f"the sweep {name}"
 
 
-def _antenna(doc, ctx, file):
-    """The antenna table, where its key sits, its gain, and where it was measured (None: at the feedpoint)."""
-    mapping(doc, ctx, optional=("impedance", "swr", "touchstone", "measured_at", "gain"))
-    given = [key for key in ("impedance", "swr", "touchstone") if key in doc]
+def _antenna(doc, ctx, file, highest_frequency_hz):
+    """The antenna table, where its key sits, its gain, and where it was measured (None: at the feedpoint).
+
+    A wire antenna is the model itself, its gain None (it has one per row)."""
+    mapping(doc, ctx, optional=("impedance", "swr", "touchstone", "wire", "measured_at", "gain"))
+    given = [key for key in ("impedance", "swr", "touchstone", "wire") if key in doc]
     if len(given) != 1:
-        raise ctx.error("give the antenna as exactly one of impedance: {...}, swr: {...} or touchstone: FILE")
+        raise ctx.error("give the antenna as exactly one of impedance: {...}, swr: {...}, touchstone: FILE "
+                        "or wire: {...}")
+    if "wire" in doc:
+        for key in ("gain", "measured_at"):
+            if key in doc:
+                raise ctx.child(doc, key).error(f"a wire antenna takes no {key}: the model gives its gain and its "
+                                                "feedpoint")
+        antenna = read_wire(doc["wire"], ctx.child(doc, "wire"), highest_frequency_hz)
+        return antenna, ctx.child(doc, "wire"), None, None, "the wire model"
     gain_dbi = _gain_dbi(doc, ctx)
     measured_at = string(doc, "measured_at", ctx) if "measured_at" in doc else None
     if "touchstone" in doc:
@@ -230,8 +242,11 @@ def station_from_document(doc, file="<station>") -> Station:
     transmit_fraction = (number(radio, "transmit_fraction", radio_ctx, low=0, high=1) if "transmit_fraction" in radio
                          else TRANSMIT_FRACTION)
     labels, frequency_hz, band_edges = _rows(doc, ctx)
-    antenna, table_ctx, gain_dbi, measured_at, source = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file)
-    outside = outside_table(antenna.frequency_hz, frequency_hz)
+    highest_hz = max([f for f in frequency_hz] + [edge[1] for edge in band_edges if edge is not None])
+    antenna, table_ctx, gain_dbi, measured_at, source = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file,
+                                                                 highest_hz)
+    outside = (np.zeros(frequency_hz.shape, bool) if isinstance(antenna, WireAntenna)
+               else outside_table(antenna.frequency_hz, frequency_hz))
     if outside.any():
         span = f"{antenna.frequency_hz[0] / 1e6:g} to {antenna.frequency_hz[-1] / 1e6:g} MHz"
         asked = ", ".join(label if label == f"{f / 1e6:.9g} MHz" else f"{label} ({f / 1e6:.9g} MHz)"

@@ -27,6 +27,11 @@ def _db(value):
 HOLDS_TEXT = {"forward": "forward power held by the radio", "net": "net power held by the radio"}
 
 
+def _impedance_text(z):
+    """An impedance [ohm] as R+jX."""
+    return f"{z.real:.1f}{'+' if z.imag >= 0 else '-'}j{abs(z.imag):.1f}"
+
+
 def _tuner_cells(element, i):
     """A tuner's setting on one row: arrangement, part values and whether it matched. For an
     SWR-only antenna each part shows its range over the phases of the unknown reflection."""
@@ -107,6 +112,13 @@ def budget_table(result: BudgetResult) -> str:
         rows = [[label, f"{result.measured['sensitivity'][i]:.2f}"] for i, label in enumerate(result.labels)]
         lines += ["", "The measured sweep moved to the antenna; a reflection error at the instrument is multiplied by:",
                   tabulate(rows, headers=["row", "error multiplier"], disable_numparse=True)]
+    if result.wire:
+        w = result.wire
+        rows = [[label, _impedance_text(result.z_antenna_ohm[i]), f"{w['peak_gain_dbi'][i]:.1f}",
+                 f"{w['wire_loss_db'][i]:.3f}", f"{w['wire_heat_w'][i]:.2f}"] for i, label in enumerate(result.labels)]
+        lines += ["", "The wire antenna, solved by the method of moments (NEC-2; ground loss not counted as wire loss):",
+                  tabulate(rows, headers=["row", "feedpoint ohm", "peak gain dBi", "wire loss dB", "wire heat W"],
+                           disable_numparse=True, stralign="right")]
     if swr_only:
         lines += ["", SWR_ONLY_NOTE] + ([TUNER_PHASE_NOTE] if tuners else [])
     lines += ["", "Voltages on the line and RF-exposure distances: linecalc safety (read its cautions)."]
@@ -130,7 +142,8 @@ def safety_table(result: BudgetResult) -> str:
     and the cautions."""
     lines = [f"{result.station}: {result.radio_power_w:g} W PEP from the radio, mode {result.mode} "
              f"(duty factor {result.duty_factor:g}), transmitting {100 * result.transmit_fraction:g} % of the time, "
-             f"antenna gain {result.antenna_gain_dbi:g} dBi", ""]
+             + (f"antenna gain {result.antenna_gain_dbi:g} dBi" if result.antenna_gain_dbi is not None
+                else "antenna gain per row from the wire model (its peak over the sky)"), ""]
     for e in result.elements:
         if e.kind == "line":
             r = e.readings
@@ -154,14 +167,15 @@ def safety_table(result: BudgetResult) -> str:
     if x:
         missing = [math.nan] * len(result.labels)
         near = x.get("near_field_m", missing)
-        body = [[label, f"{x['power_average_w'][i]:.1f}", _watts(x.get("eirp_w", missing)[i]),
+        body = [[label, *([f"{result.wire['peak_gain_dbi'][i]:.1f}"] if result.wire else []),
+                 f"{x['power_average_w'][i]:.1f}", _watts(x.get("eirp_w", missing)[i]),
                  *(_distance(x.get(key, missing)[i], near[i])
                    for key in ("fcc_uncontrolled_m", "fcc_controlled_m", "icnirp_general_public_m")),
                  _distance(near[i], 0.0)]
                 for i, label in enumerate(result.labels)]
         lines += ["RF exposure: least distance from the antenna that meets the limits (far-field estimate with "
                   "ground reflection, FCC OET Bulletin 65 section 2):",
-                  tabulate(body, headers=["row", "avg W at antenna", "avg EIRP W", "FCC general public m",
+                  tabulate(body, headers=["row", *(["gain dBi"] if result.wire else []), "avg W at antenna", "avg EIRP W", "FCC general public m",
                                           "FCC occupational m", "ICNIRP 2020 public m", "near field within m"],
                            disable_numparse=True, stralign="right"),
                   "* inside the reactive near field (about a sixth of a wavelength), where the far-field formula "
@@ -296,3 +310,36 @@ def advice_table(result, top) -> str:
     return "\n".join(lines) + "\n"
 
 
+def antenna_table(report) -> str:
+    """A wire antenna (an `AntennaReport`) per row, and the cut length if one was asked for."""
+    line = report.line_label
+    headers = ["row", "MHz", "feedpoint ohm", f"SWR {report.reference_impedance_ohm:g} ohm"]
+    if line is not None:
+        headers.append(f"SWR on {line}")
+    headers += ["nearest resonance MHz", "peak gain dBi", "wire loss dB"]
+    body = []
+    for i, label in enumerate(report.labels):
+        row = [label, f"{report.frequency_hz[i] / 1e6:.4g}", _impedance_text(report.impedance_ohm[i]),
+               _swr_text(report.swr_reference[i])]
+        if line is not None:
+            row.append(_swr_text(report.swr_line[i]))
+        resonance = report.resonance_hz[i]
+        row += [f"{resonance / 1e6:.3f}" if math.isfinite(resonance) else "none within 20 %",
+                f"{report.peak_gain_dbi[i]:.1f}", f"{report.wire_loss_db[i]:.3f}"]
+        body.append(row)
+    lines = [f"{report.station}: {report.shape}, {report.length_m:g} m, solved by the method of moments (NEC-2)", "",
+             tabulate(body, headers=headers, disable_numparse=True, stralign="right"), "",
+             "Peak gain is the largest on a 5 x 10 degree grid of the sky (a lobe may peak up to about 0.2 dB "
+             "higher); the model leaves out the feedline, insulators and nearby objects."]
+    cut = report.cut
+    if cut is not None:
+        feet = cut.rule_of_thumb_m / 0.3048
+        rule = "468" if report.shape != "vertical" else "234"
+        found = (f"{cut.length_m:.2f} m ({cut.length_m / 0.3048:.1f} ft), R {cut.resistance_ohm:.1f} ohm there"
+                 if cut.converged else f"not found (last try {cut.length_m:.2f} m)")
+        lines += ["", f"Length for resonance at {cut.frequency_hz / 1e6:g} MHz, this shape, height, wire and ground: "
+                  f"{found}; rule of thumb {rule}/f(MHz) ft: {cut.rule_of_thumb_m:.2f} m ({feet:.1f} ft). "
+                  "Cut a little long and trim: the real wire's surroundings move the resonance."]
+    lines += ["", "Keep antennas well clear of power lines; lightning protection and grounding follow local "
+              "code and licensed practice."]
+    return "\n".join(lines) + "\n"

@@ -96,9 +96,9 @@ def solve_band_sweeps(station: Station, points: int) -> tuple[BudgetResult, list
         raise BudgetError("a sweep needs at least 2 points per band", "bands")
     work_size.check_sweep(station, points, f"a sweep of {points:,} points per band")
     labels, frequency_hz, slices = sweep_points(station, points)
-    table_hz = station.antenna.frequency_hz
     outside = rows_outside_antenna_data(station, [frequency_hz[part] for part in slices])
     if outside:
+        table_hz = station.antenna.frequency_hz
         raise BudgetError(f"the band edges of {', '.join(outside)} lie outside the antenna data, which spans "
                           f"{table_hz[0] / 1e6:g} to {table_hz[-1] / 1e6:g} MHz: a sweep never extrapolates it",
                           "antenna")

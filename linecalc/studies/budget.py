@@ -19,6 +19,8 @@ from linecalc.studies.json_values import finite_or_none, json_value, pair
 from linecalc.studies.measured import PHASE_SAMPLES, measured_antenna_load
 from linecalc.studies import work_size
 from linecalc.studies.station import BudgetError, Station
+from linecalc.physics import wire_antenna
+from linecalc.physics.wire_antenna import WireAntenna
 
 
 
@@ -71,8 +73,9 @@ class BudgetResult:
     mode: str = "carrier"
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
-    antenna_gain_dbi: float = 2.15
+    antenna_gain_dbi: float | None = 2.15  # None for a wire antenna: its gain per row is in ``wire``
     sweeps: tuple | None = None  # per row, its `BandSweep` (budget --sweep), or None
+    wire: dict = field(default_factory=dict)  # a wire antenna: per-row peak gain, wire loss and heat
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc budget --format json`` (and of ``safety``); every key
@@ -107,6 +110,8 @@ class BudgetResult:
                 row["total_loss_db_range"] = [finite_or_none(v) for v in self.total_loss_db_range[i]]
             if self.measured:
                 row["measured"] = {key: finite_or_none(values[i]) for key, values in self.measured.items()}
+            if self.wire:
+                row["wire"] = {key: finite_or_none(values[i]) for key, values in self.wire.items()}
             if self.exposure:
                 row["exposure"] = {key: finite_or_none(values[i]) for key, values in self.exposure.items()}
             if self.sweeps is not None:
@@ -127,7 +132,7 @@ class BudgetResult:
 
 def _antenna_rho(antenna, frequency_hz, z_ref_ohm):
     """Reflection coefficient of the antenna against ``z_ref_ohm``: (nf,), or (phases, nf) if SWR-only."""
-    if isinstance(antenna, ImpedanceTable):
+    if isinstance(antenna, (ImpedanceTable, WireAntenna)):
         return rho_from_impedance(antenna.impedance_at(frequency_hz), z_ref_ohm)
     phase = np.exp(2j * np.pi * np.arange(PHASE_SAMPLES) / PHASE_SAMPLES)
     return antenna.rho_magnitude_at(frequency_hz)[None, :] * phase[:, None]
@@ -344,6 +349,11 @@ def solve_budget(station: Station) -> BudgetResult:
         rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
     else:
         rho_antenna = _antenna_rho(station.antenna, f, z_ref)
+    gain_dbi, wire_facts = station.antenna_gain_dbi, {}
+    if isinstance(station.antenna, WireAntenna):
+        model = wire_antenna.solve(station.antenna, f)
+        gain_dbi, wire_facts = model.peak_gain_dbi, {"peak_gain_dbi": model.peak_gain_dbi,
+                                                     "wire_loss_db": model.wire_loss_db}
     abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref, station.tuner_set_at)
     try:
         solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)
@@ -375,6 +385,8 @@ def solve_budget(station: Station) -> BudgetResult:
     forward_w, reflected_w = _phase_mean(drive.forward_w, swr_only), _phase_mean(drive.reflected_w, swr_only)
     held_w = forward_w if station.radio_holds == "forward" else np.full(np.shape(f), station.radio_power_w)
     swr_radio = swr_from_rho(np.abs(rho_radio).mean(axis=0)) if swr_only else swr_from_rho(rho_radio)
+    if wire_facts:
+        wire_facts["wire_heat_w"] = power_antenna * (1 - 10 ** (-wire_facts["wire_loss_db"] / 10))
     total_loss_db = db_below_radio[-1]
     matched_loss_db = sum((e.matched_loss_db for e in elements), np.zeros_like(f))
     loss_range = None
@@ -399,11 +411,11 @@ def solve_budget(station: Station) -> BudgetResult:
                        + _range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
                        + _tuner_warnings(station.feed, designs, station.labels, swr_in, station.tuner_set_at)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings
-                       + safety.gain_warnings(station.antenna_gain_dbi) + measured_warnings),
+                       + (safety.gain_warnings(gain_dbi) if not wire_facts else []) + measured_warnings),
         measured=measured_facts,
         solution=solution,
-        exposure=safety.exposure(f, power_antenna, station.duty_factor, station.transmit_fraction,
-                                 station.antenna_gain_dbi),
+        exposure=safety.exposure(f, power_antenna, station.duty_factor, station.transmit_fraction, gain_dbi),
+        wire=wire_facts,
         mode=station.mode, duty_factor=station.duty_factor, transmit_fraction=station.transmit_fraction,
         antenna_gain_dbi=station.antenna_gain_dbi,
     )

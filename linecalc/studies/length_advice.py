@@ -15,6 +15,7 @@ from linecalc.studies import work_size
 from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
 from linecalc.studies.compare import CompareError, main_line_index
 from linecalc.physics.loads import ImpedanceTable
+from linecalc.physics.wire_antenna import WireAntenna
 
 # Points per band row for the scan: both edges and the centre.
 POINTS_PER_BAND = 3
@@ -84,7 +85,7 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
     -------
     AdviceResult
     """
-    if not isinstance(station.antenna, ImpedanceTable):
+    if not isinstance(station.antenna, (ImpedanceTable, WireAntenna)):
         raise BudgetError("the length advisor needs the antenna's impedance at its feedpoint (impedance: {...} "
                           "or a touchstone: sweep taken there)", "antenna")
     feed = station.feed

@@ -13,6 +13,7 @@ import numpy as np
 from linecalc.errors import InputError, StationError
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
 from linecalc.physics.swr_curve import sweep_frequencies_hz
+from linecalc.physics.wire_antenna import WireAntenna
 
 
 @dataclass(frozen=True)
@@ -47,13 +48,13 @@ class Station:
     reference_impedance_ohm: float
     labels: tuple[str, ...]
     frequency_hz: np.ndarray
-    antenna: ImpedanceTable | SwrTable | MeasuredAntenna
+    antenna: ImpedanceTable | SwrTable | MeasuredAntenna | WireAntenna
     feed: tuple = ()
     region: int = 2
     mode: str = "carrier"
     duty_factor: float = 1.0
     transmit_fraction: float = 1.0
-    antenna_gain_dbi: float = 2.15
+    antenna_gain_dbi: float | None = 2.15  # None for a wire antenna, whose model gives a gain per row
     radio_holds: str = "forward"
     radio_foldback_swr: float | None = None
     radio_max_power_w: float | None = None
@@ -98,5 +99,7 @@ def row_frequencies(station: Station, points: int) -> list[np.ndarray]:
 def rows_outside_antenna_data(station: Station, frequencies: list[np.ndarray]) -> list[str]:
     """Labels of the rows whose ``frequencies`` reach outside the antenna's data (its table or
     sweep, which is never extrapolated)."""
+    if isinstance(station.antenna, WireAntenna):  # a model answers at every frequency
+        return []
     table_hz = station.antenna.frequency_hz
     return [label for label, f in zip(station.labels, frequencies) if np.any(outside_table(table_hz, f))]

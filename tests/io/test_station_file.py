@@ -461,7 +461,7 @@ BAD = {
     "unknown top-level key": ("region: 2\n", "region: 2\ncolour: red\n", "colour:", "colour", "unknown key 'colour'"),
     "unknown radio key": ("{power: 100 W}", "{power: 100 W, colour: red}", "radio:", "radio.colour", "unknown key"),
     "unknown antenna key": ("  gain: 2.15 dBi\n", "  gain: 2.15 dBi\n  height: 10 m\n", "height:", "antenna.height",
-                            "allowed here: impedance, swr, touchstone, measured_at, gain"),
+                            "allowed here: impedance, swr, touchstone, wire, measured_at, gain"),
     "missing power": ("{power: 100 W}", "{impedance: 50 ohm}", "radio:", "radio", "missing key 'power'"),
     "missing length": ("cable: rg-213, length: 30 m", "cable: rg-213", "main coax", "feed[1].line",
                        "missing key 'length'"),
