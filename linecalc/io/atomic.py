@@ -17,6 +17,7 @@ import tempfile
 from pathlib import Path
 
 from linecalc.errors import InputError
+from linecalc.io.input_file import file_kind
 
 
 class OutputExistsError(InputError, FileExistsError):
@@ -81,17 +82,8 @@ def check_output(path, *, force=False, protected=()) -> Path:
         except OSError:  # a symlink that leads nowhere: replacing it destroys nothing
             mode = stat.S_IFREG
         if not stat.S_ISREG(mode):
-            raise OutputNotFileError(path, _kind(mode))
+            raise OutputNotFileError(path, file_kind(mode))
     return path
-
-
-def _kind(mode) -> str:
-    for test, name in ((stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a FIFO (named pipe)"),
-                       (stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device"),
-                       (stat.S_ISSOCK, "a socket")):
-        if test(mode):
-            return name
-    return "not a regular file"
 
 
 def write_atomically(path, write, *, binary=False, force=False, protected=()) -> Path:

@@ -26,7 +26,7 @@ class InputFileError(OSError):
         self.strerror = reason
 
 
-def _kind(mode) -> str:
+def file_kind(mode) -> str:
     """What a non-regular file is, in words."""
     for test, name in ((stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a FIFO (named pipe)"),
                        (stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device"),
@@ -38,7 +38,7 @@ def _kind(mode) -> str:
 
 def _check(path, info, max_bytes):
     if not stat.S_ISREG(info.st_mode):
-        raise InputFileError(path, f"is {_kind(info.st_mode)}, not a regular file")
+        raise InputFileError(path, f"is {file_kind(info.st_mode)}, not a regular file")
     if info.st_size > max_bytes:
         raise InputFileError(path, f"is {info.st_size:,} bytes, over the limit of {max_bytes:,} bytes")
 
