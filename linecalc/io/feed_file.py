@@ -49,6 +49,10 @@ CAPACITOR_Q = 1000.0
 LOSS_DB_PER_M = (1e-9, 1e3)
 Q_RANGE = (1.0, 1e6)
 MAX_CONNECTORS = 1000
+# Largest loss of one connector, choke or balun, and of a connector element's count together [dB]:
+# a part that loses more turns nearly all the power into heat and is no part of a feed path.
+MAX_PART_LOSS_DB = 20.0
+MAX_CONNECTORS_LOSS_DB = 100.0
 MAX_WINDING_M = 100.0  # a choke's or balun's line section; longer is a line element
 RATIO_RANGE = (1e-4, 1e4)
 TUNER_CAPACITANCE_F = (10e-12, 500e-12)
@@ -194,8 +198,9 @@ def _loss(doc, ctx, default_db):
     if "loss" not in doc:
         return default_db
     loss = decibels(doc, "loss", ctx, "dB")
-    if loss < 0:
-        raise ctx.child(doc, "loss").error(f"a loss is zero or more dB, got {doc['loss']!r}")
+    if not 0 <= loss <= MAX_PART_LOSS_DB:
+        raise ctx.child(doc, "loss").error(f"a part's loss is zero or more dB, at most {MAX_PART_LOSS_DB:g} dB, "
+                                           f"got {doc['loss']!r}")
     return loss
 
 
@@ -205,7 +210,11 @@ def _connector(doc, ctx, index, z_ref_ohm):
     count = doc.get("count", 1)
     if isinstance(count, bool) or not isinstance(count, int) or not 1 <= count <= MAX_CONNECTORS:
         raise ctx.child(doc, "count").error(f"count is a whole number from 1 to {MAX_CONNECTORS}, got {count!r}")
-    return Connector(_label(doc, ctx, "connector", index), _loss(doc, ctx, CONNECTOR_LOSS_DB), z_ref_ohm, count)
+    loss_db = _loss(doc, ctx, CONNECTOR_LOSS_DB)
+    if loss_db * count > MAX_CONNECTORS_LOSS_DB:
+        raise ctx.child(doc, "count").error(f"{count} connectors of {loss_db:g} dB lose {loss_db * count:g} dB "
+                                            f"together; at most {MAX_CONNECTORS_LOSS_DB:g} dB")
+    return Connector(_label(doc, ctx, "connector", index), loss_db, z_ref_ohm, count)
 
 
 def _choke(doc, ctx, index, z_ref_ohm):

@@ -43,6 +43,8 @@ BAD = {
     "tuner inductance empty": ("{min: 0.05 uH, max: 30 uH}", "{min: 2 uH, max: 2 uH}", 17,
                                "feed[7].tuner.inductance", "empty or inverted"),
     "connector loss negative": ("loss: 0.05 dB", "loss: -0.05 dB", 7, "feed[0].connector.loss", "zero or more"),
+    "connector loss of thousands of dB": ("loss: 0.05 dB", "loss: 3000 dB", 7, "feed[0].connector.loss",
+                                          "at most 20 dB"),
     "choke loss negative": ("loss: 0.1 dB", "loss: -0.1 dB", 8, "feed[1].choke.loss", "zero or more"),
     "balun loss negative": ("loss: 0.2 dB", "loss: -0.2", 12, "feed[5].balun.loss", "zero or more"),
     "choke length zero": ("loss: 0.1 dB, common", "loss: 0.1 dB, length: 0 m, common", 8, "feed[1].choke.length",
