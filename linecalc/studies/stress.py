@@ -93,7 +93,10 @@ def exposure(frequency_hz, power_antenna_w, duty, transmit_fraction, gain_dbi):
     """Average power at the antenna and the compliance distances per row; NaN outside the tables."""
     f = np.asarray(frequency_hz, dtype=float)
     inside = (f >= EXPOSURE_SPAN_HZ[0]) & (f <= EXPOSURE_SPAN_HZ[1])
-    average_w = average_power_w(power_antenna_w, duty, transmit_fraction)
+    # A passive antenna takes no negative power: a load with no resistance through a lossless
+    # path leaves a net power of rounding size (|rho| = 1 to the last bit), either sign. Its
+    # exposure is that of no power, so what is below zero counts as zero here.
+    average_w = average_power_w(np.maximum(power_antenna_w, 0.0), duty, transmit_fraction)
     rows = {"power_average_w": average_w}
     if np.any(inside):
         distances = exposure_distances(f[inside], average_w[inside], gain_dbi)

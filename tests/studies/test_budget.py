@@ -28,3 +28,15 @@ def test_swr_at_antenna_is_against_the_nominal_real_impedance(z_load, library, m
     result = budget.solve_budget(make_station([elements.Line(cable, 20.0, "coax")], HF_HZ, z_load))
     np.testing.assert_allclose(result.swr_antenna, expected_swr, rtol=1e-9)
     assert np.all(np.isfinite(result.swr_antenna))
+
+
+def test_a_load_with_no_resistance_through_a_line_is_solved(library, make_station):
+    # 0+j50000 ohm takes no power: everything the radio sends is heat in the line (energy balance,
+    # Pozar, Microwave Engineering, 4th ed., section 2.3: a reactive load absorbs nothing). Its
+    # net power at the antenna is rounding residue of either sign, and its exposure is that of no power.
+    line = elements.Line(library["rg-213"], 10.0, "coax")
+    result = budget.solve_budget(make_station([line], [7.1e6], 0 + 50000j))
+    assert abs(result.power_antenna_w[0]) < 1e-9 * 100.0
+    np.testing.assert_allclose(result.elements[0].dissipated_w + result.power_antenna_w, 100.0, rtol=1e-9)
+    assert result.exposure["power_average_w"][0] == 0.0
+    assert np.all(np.isfinite([v[0] for v in result.exposure.values()]))
