@@ -87,9 +87,11 @@ def closed_form_line_loss_db(matched_loss_db, rho_load_magnitude):
     ARRL Antenna Book, transmission-line chapter (total loss with SWR), from memory of its form;
     it follows from P(z) = (|V+(z)|^2 - |V-(z)|^2)/Z0 on a line of real Z0 (Pozar, 4th ed., 2.7).
     """
-    a = 10 ** (np.asarray(matched_loss_db, dtype=float) / 10)
+    # written as ML + 10 log10(1 - |rho|^2 / a^2) - 10 log10(1 - |rho|^2), the same figure, so that
+    # a line of thousands of dB (a^2 beyond a float) gives its loss instead of overflowing
+    matched = np.asarray(matched_loss_db, dtype=float)
     rho2 = np.asarray(rho_load_magnitude, dtype=float) ** 2
-    return 10 * np.log10((a * a - rho2) / (a * (1 - rho2)))
+    return matched + 10 * np.log10(1 - rho2 * 10 ** (-matched / 5)) - 10 * np.log10(1 - rho2)
 
 
 def stack_abcd(a, b, c, d):

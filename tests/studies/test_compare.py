@@ -189,3 +189,13 @@ def test_compare_ranks_by_watts_at_the_antenna():
 
     comparison = compare(parse_station_text(CHOKED), tuner_alternatives(parse_station_text(CHOKED)))
     np.testing.assert_array_equal(comparison.winner, np.argmax(comparison.power_antenna_w, axis=0))
+
+
+def test_closed_form_loss_of_a_line_of_thousands_of_db():
+    # As the matched loss grows, (a^2 - rho^2) / (a (1 - rho^2)) tends to a / (1 - rho^2): the
+    # reflected wave never returns and the total loss is ML - 10 log10(1 - |rho|^2) (worked by hand
+    # from the closed form; Pozar, Microwave Engineering, 4th ed., section 2.7). 3000 dB once overflowed.
+    loss = closed_form_line_loss_db(np.array([3000.0, 10.0]), np.array([0.5, 0.5]))
+    assert loss[0] == pytest.approx(3000.0 - 10 * np.log10(0.75), abs=1e-9)
+    a = 10.0  # 10 dB: a = 10^(10/10), the closed form evaluated directly
+    assert loss[1] == pytest.approx(10 * np.log10((a * a - 0.25) / (a * 0.75)), rel=1e-12)
