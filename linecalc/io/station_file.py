@@ -82,6 +82,12 @@ def _touchstone(doc, ctx, file):
         if exc.line is None:
             raise ctx.child(doc, "touchstone").error(str(exc)) from None
         raise StationError(exc.file, exc.line, exc.message) from None
+    infinite = ~np.isfinite(z_ohm)
+    if infinite.any():  # an exact open (S = 1, or Y = 0): no impedance to interpolate between
+        where = ", ".join(f"{f / 1e6:.9g}" for f in frequency_hz[infinite][:8])
+        raise ctx.child(doc, "touchstone").error(
+            f"the sweep {name} is an exact open (S = 1, or Y = 0) at {where} MHz: its impedance is infinite "
+            "there, and a sweep is interpolated in impedance; leave those points out")
     return ImpedanceTable(frequency_hz, z_ohm), ctx.child(doc, "touchstone"), f"the sweep {name}"
 
 

@@ -590,3 +590,20 @@ def test_a_frequency_just_outside_the_table_is_shown_with_its_digits(data_path):
     # the table ends at 7.25 MHz (its last row, in the test station): 7.2500001 MHz is 0.1 Hz past it
     assert "7.2500001 MHz outside the antenna table" in str(info.value)
     assert "(7.25 MHz)" not in str(info.value)
+
+
+@pytest.mark.parametrize("data", ["7.0 1 0\n7.1 0.2 0.1\n7.2 0.1 0\n", "7.0 0 0\n7.1 0 0\n7.2 0 0\n"],
+                         ids=["one exact open in S", "all-zero Y"])
+def test_a_sweep_with_an_exact_open_is_refused_at_its_key(tmp_path, data):
+    # S = 1 (or Y = 0) is an infinite impedance (Pozar, Microwave Engineering, 4th ed., section 2.3:
+    # Z = Z0 (1 + S) / (1 - S)); a sweep is interpolated in impedance, so the point is refused.
+    parameter = "S" if data.startswith("7.0 1") else "Y"
+    (tmp_path / "open.s1p").write_text(f"# MHz {parameter} RI R 50\n{data}")
+    station = tmp_path / "station.yaml"
+    station.write_text("name: t\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
+                       "antenna: {touchstone: open.s1p, measured_at: radio}\n"
+                       "feed: [{line: {cable: rg-213, length: 10 m}}]\n")
+    with pytest.raises(StationError) as info:
+        load_station(station)
+    assert str(info.value).startswith(f"{station}:4: ") and "exact open" in str(info.value)
+    assert str(info.value).endswith("(at antenna.touchstone)")
