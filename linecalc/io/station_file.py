@@ -17,7 +17,7 @@ from linecalc.io import input_file
 from linecalc.io.feed_file import build_feed, read_cable
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, outside_table
 from linecalc.errors import StationError
-from linecalc.io.yaml_schema import (Context, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
+from linecalc.io.yaml_schema import (MAGNITUDE_LIMITS, Context, decibels, frequency_table, load_yaml_text, mapping, number, quantity,
                      string)
 from linecalc.io.units import UnitError, parse_impedance
 from linecalc.io.wire_file import read_wire
@@ -45,6 +45,8 @@ def _read_impedance(value, ctx):
         raise ctx.error(str(exc)) from None
     if z.real < 0:
         raise ctx.error(f"a passive antenna has a resistance of zero or more, got {value!r}")
+    if abs(z) > MAGNITUDE_LIMITS["ohm"]:
+        raise ctx.error(f"an impedance is at most {MAGNITUDE_LIMITS['ohm']:g} ohm in size, got {value!r}")
     return z
 
 

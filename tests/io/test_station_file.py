@@ -607,3 +607,13 @@ def test_a_sweep_with_an_exact_open_is_refused_at_its_key(tmp_path, data):
         load_station(station)
     assert str(info.value).startswith(f"{station}:4: ") and "exact open" in str(info.value)
     assert str(info.value).endswith("(at antenna.touchstone)")
+
+
+@pytest.mark.parametrize("z", ["1e300", "1e308+j1e308", "2e9-j10"])
+def test_an_antenna_impedance_past_one_gigohm_is_refused(z):
+    # README (the limits past which input is refused): impedances up to 1 Gohm
+    text = ("name: t\nradio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
+            f"antenna: {{impedance: {{7.0 MHz: {z}, 7.2 MHz: 50}}}}\nfeed: []\n")
+    with pytest.raises(StationError) as info:
+        parse_station_text(text, "big.yaml")
+    assert str(info.value).startswith("big.yaml:4: ") and "at most 1e+09 ohm" in str(info.value)
