@@ -352,7 +352,7 @@ def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v):
 def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm, radio_power_w,
                   length_min_m, length_max_m, step_m, abcd_tuner_to_feeder=(), abcd_feeder_to_antenna=(),
                   max_evaluations=MAX_EVALUATIONS, allow_large_scan=False,
-                  memory_budget_bytes=MEMORY_BUDGET_BYTES, progress=None) -> LengthAdvice:
+                  memory_budget_bytes=MEMORY_BUDGET_BYTES, progress=None, max_swr=None) -> LengthAdvice:
     """Scan the feeder length and find the windows where the tuner matches on every frequency.
 
     Parameters
@@ -385,6 +385,10 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
         Peak memory of one chunk [bytes]; see `chunk_plan`.
     progress : callable(done, total) or None
         Called after each chunk with the lengths done and the lengths in all.
+    max_swr : float or None
+        A radio's built-in tuner: it tunes only loads whose SWR against ``r0_ohm`` is at most
+        this (as `linecalc.physics.matching.design_builtin_tuner`); None for a tuner that takes
+        any load its parts can match.
 
     Returns
     -------
@@ -434,6 +438,9 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
         lengths = length_m[start:start + chunk, None]
         rho_in, v_t, i_t = feeder_waves(z0, gamma, lengths, rho_out, abcd_tuner_to_feeder)  # (chunk, nf)
         loss_db, matched = least_loss(f, v_t / i_t, r0_ohm, parts)
+        if max_swr is not None:  # a built-in tuner refuses a load past its SWR limit
+            z_t = v_t / i_t
+            matched = matched & (np.abs((z_t - r0_ohm) / (z_t + r0_ohm)) <= (max_swr - 1) / (max_swr + 1))
         # power into the tuner per 1 V forward wave; a stand-in where unmatched (masked below)
         power_in = np.where(matched, (v_t * i_t.conj()).real * 10 ** (np.where(matched, loss_db, 0.0) / 10), 1.0)
         voltage = feeder_peak_voltage(gamma, lengths, rho_in, np.sqrt(radio_power_w / power_in))

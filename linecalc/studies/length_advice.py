@@ -119,7 +119,8 @@ def advise_station(station: Station, line_label, length_min_m, length_max_m, ste
         radio_power_w=station.radio_power_w, length_min_m=length_min_m, length_max_m=length_max_m, step_m=step_m,
         abcd_tuner_to_feeder=[e.abcd(f) for e in feed[tuners[0] + 1:index]],
         abcd_feeder_to_antenna=[e.abcd(f) for e in feed[index + 1:]],
-        allow_large_scan=allow_large_scan, progress=progress)
+        allow_large_scan=allow_large_scan, progress=progress,
+        max_swr=tuner.max_swr if tuner.network == "builtin" else None)
     if max_loss_db is not None:
         advice = within_loss(advice, max_loss_db)
     return AdviceResult(station.name, advice, f, rows, feed[index].cable.kind)

@@ -378,3 +378,22 @@ def test_bad_antenna_and_frequencies():
                               radio_power_w=POWER_W, length_min_m=10, length_max_m=11, step_m=0.1)
     with pytest.raises(advisor.AdvisorInputError):
         advisor.band_scan_frequencies(BANDS, 1)
+
+
+def test_a_builtin_tuner_matches_only_lengths_within_its_swr_limit():
+    # A built-in tuner tunes only loads up to max_swr. The load it sees is the line's input
+    # impedance Z0 (ZL + Z0 tanh(gl)) / (Z0 + ZL tanh(gl)) (Pozar, Microwave Engineering, 4th ed.,
+    # section 2.3, with gamma for a lossy line), computed here independently of the scan.
+    f = np.array([14.2e6])
+    z_load = np.array([75.0 + 25.0j])
+    kwargs = {"network": "L", "r0_ohm": R0, "radio_power_w": POWER_W, "length_min_m": 5.0, "length_max_m": 25.0,
+              "step_m": 0.05}
+    free = advisor.advise_length(LADDER, f, z_load, PARTS, **kwargs)
+    limited = advisor.advise_length(LADDER, f, z_load, PARTS, max_swr=3.0, **kwargs)
+    z0, gamma = LADDER.constants(f)
+    t = np.tanh(gamma * limited.length_m[:, None])
+    z_in = (z0 * (z_load + z0 * t) / (z0 + z_load * t))[:, 0]
+    swr = (1 + np.abs((z_in - R0) / (z_in + R0))) / (1 - np.abs((z_in - R0) / (z_in + R0)))
+    clear = np.abs(swr - 3.0) > 1e-6  # leave out lengths on the limit itself (rounding)
+    np.testing.assert_array_equal(limited.matchable[clear], (free.matchable & (swr <= 3.0))[clear])
+    assert limited.matchable.any() and not limited.matchable.all()
