@@ -133,3 +133,21 @@ def library():
     from linecalc.io.cable_library import load_library
 
     return load_library()
+
+
+@pytest.fixture(scope="session")
+def with_peak_memory():
+    """``with_peak_memory(function, *args)`` -> (its result, the peak of the memory it allocated
+    [bytes], numpy's arrays included, measured with tracemalloc)."""
+    import tracemalloc
+
+    def measure(function, *args):
+        tracemalloc.start()
+        try:
+            result = function(*args)
+            _, peak = tracemalloc.get_traced_memory()
+        finally:
+            tracemalloc.stop()
+        return result, peak
+
+    return measure

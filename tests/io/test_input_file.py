@@ -7,7 +7,6 @@ Every case runs in-process (no process to end) and the peak memory of each refus
 from __future__ import annotations
 
 import os
-import tracemalloc
 
 import pytest
 
@@ -15,17 +14,6 @@ from linecalc.io import input_file
 from linecalc.io.input_file import InputFileError, read_bytes
 
 PEAK_LIMIT_BYTES = 500_000_000
-
-
-def measured_run(cli, *args):
-    """``cli(*args)`` with the peak of the memory it allocated (numpy's arrays included)."""
-    tracemalloc.start()
-    try:
-        result = cli(*args)
-        _, peak = tracemalloc.get_traced_memory()
-    finally:
-        tracemalloc.stop()
-    return (*result, peak)
 
 
 @pytest.fixture
@@ -56,10 +44,10 @@ def test_a_file_past_its_limit_is_refused(tmp_path):
     assert read_bytes(big, 101) == b"#" * 101
 
 
-def test_a_station_fifo_exits_2_naming_it(cli, tmp_path, one_error_line):
+def test_a_station_fifo_exits_2_naming_it(with_peak_memory, cli, tmp_path, one_error_line):
     fifo = tmp_path / "pipe.yaml"
     os.mkfifo(fifo)
-    code, out, err, peak = measured_run(cli, "budget", fifo)
+    (code, out, err), peak = with_peak_memory(cli, "budget", fifo)
     assert code == 2 and out == ""
     line, message = one_error_line(err, fifo)
     assert line == 0 and "is a FIFO (named pipe), not a regular file" in message
@@ -75,11 +63,11 @@ def test_a_fifo_in_a_batch_folder_is_reported_and_the_others_print(cli, tmp_path
     assert out.strip()  # a.yaml printed
 
 
-def test_a_huge_station_file_is_refused_before_it_is_read(cli, tmp_path, one_error_line):
+def test_a_huge_station_file_is_refused_before_it_is_read(with_peak_memory, cli, tmp_path, one_error_line):
     big = tmp_path / "big.yaml"
     with open(big, "wb") as out:  # sparse: no disk used
         out.truncate(input_file.MAX_STATION_BYTES + 1)
-    code, out, err, peak = measured_run(cli, "budget", big)
+    (code, out, err), peak = with_peak_memory(cli, "budget", big)
     assert code == 2 and out == ""
     _, message = one_error_line(err, big)
     assert "over the limit of 1,000,000 bytes" in message
@@ -97,9 +85,9 @@ def test_a_non_utf8_station_names_line_and_column(cli, tmp_path, one_error_line)
 
 
 @pytest.mark.skipif(not os.path.exists("/dev/zero"), reason="no /dev/zero")
-def test_a_touchstone_device_is_refused_without_reading_it(cli, sweep_station, one_error_line):
+def test_a_touchstone_device_is_refused_without_reading_it(with_peak_memory, cli, sweep_station, one_error_line):
     station = sweep_station("/dev/zero")
-    code, out, err, peak = measured_run(cli, "feedpoint", station)
+    (code, out, err), peak = with_peak_memory(cli, "feedpoint", station)
     assert code == 2 and out == ""
     _, message = one_error_line(err, station)
     assert "/dev/zero: is a character device, not a regular file (at antenna.touchstone)" in message
@@ -115,11 +103,11 @@ def test_a_touchstone_fifo_is_refused(cli, tmp_path, sweep_station, one_error_li
     assert "pipe.s1p: is a FIFO (named pipe), not a regular file" in message
 
 
-def test_a_huge_touchstone_file_is_refused(cli, tmp_path, sweep_station, one_error_line):
+def test_a_huge_touchstone_file_is_refused(with_peak_memory, cli, tmp_path, sweep_station, one_error_line):
     with open(tmp_path / "huge.s1p", "wb") as out:
         out.truncate(input_file.MAX_TOUCHSTONE_BYTES + 1)
     station = sweep_station("huge.s1p")
-    code, out, err, peak = measured_run(cli, "feedpoint", station)
+    (code, out, err), peak = with_peak_memory(cli, "feedpoint", station)
     assert code == 2 and out == ""
     _, message = one_error_line(err, station)
     assert "over the limit of 10,000,000 bytes" in message

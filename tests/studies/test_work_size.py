@@ -3,23 +3,12 @@ refused with the estimate, naming the option or key that sized it, and the refus
 takes little memory (measured here with tracemalloc, numpy's arrays included)."""
 from __future__ import annotations
 
-import tracemalloc
 
 import pytest
 
 from linecalc.studies import work_size
 
 PEAK_LIMIT_BYTES = 500_000_000
-
-
-def measured(run, *args):
-    tracemalloc.start()
-    try:
-        result = run(*args)
-        _, peak = tracemalloc.get_traced_memory()
-    finally:
-        tracemalloc.stop()
-    return result, peak
 
 
 def test_the_estimate_counts_elements_points_and_phases():
@@ -35,10 +24,10 @@ def test_the_estimate_counts_elements_points_and_phases():
     (["advise", "orchard-doublet.yaml", "--points", "100000000"], "--points"),
     (["advise", "orchard-doublet.yaml", "--points", "100000000", "--allow-large-scan"], "--points"),
 ])
-def test_a_sweep_too_large_is_refused_before_it_starts(cli, data_path, tmp_path, args, option):
+def test_a_sweep_too_large_is_refused_before_it_starts(with_peak_memory, cli, data_path, tmp_path, args, option):
     args = [str(data_path(a)) if a.endswith(".yaml") else str(tmp_path / a) if a.endswith(".png") else a
             for a in args]
-    (code, out, err), peak = measured(cli, *args)
+    (code, out, err), peak = with_peak_memory(cli, *args)
     assert code == 2 and out == "", err
     assert err.startswith(f"linecalc {args[0]}: {option}: ") and err.count("\n") == 1, err
     assert "GB" in err or "evaluations" in err
@@ -58,7 +47,7 @@ def test_too_few_points_are_blamed_on_the_option(cli, data_path, tmp_path, args)
     assert err.startswith(f"linecalc {args[0]}: {option}: ") and err.count("\n") == 1, err
 
 
-def test_a_station_of_thousands_of_elements_at_thousands_of_frequencies_is_refused(tmp_path):
+def test_a_station_of_thousands_of_elements_at_thousands_of_frequencies_is_refused(with_peak_memory, tmp_path):
     # the station of 5,000 elements at 10,000 frequencies that reached 15.5 GB, built in code (a
     # YAML file of that size takes seconds to parse): refused with the estimate, at its feed: key
     import dataclasses
@@ -76,7 +65,7 @@ def test_a_station_of_thousands_of_elements_at_thousands_of_frequencies_is_refus
                                   labels=tuple(f"{x:g}" for x in f), band_edges_hz=(None,) * f.size)
     with pytest.raises(StationError) as info:
         api.solve_budget(station)
-    _, peak = measured(_refused, api.solve_budget, station)
+    _, peak = with_peak_memory(_refused, api.solve_budget, station)
     # (5,000 x 1,000 + 1,000) B x 10,000 points, worked by hand from the estimate's constants
     assert "would need about 50.0 GB" in str(info.value) and info.value.line == 5 and info.value.path == "feed"
     assert peak < PEAK_LIMIT_BYTES
