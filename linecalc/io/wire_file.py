@@ -56,16 +56,23 @@ def _length(doc, ctx):
     return quantity({"length": f"{count * leg!r} m"}, "length", where, "m")
 
 
-def _angle_rad(doc, key, ctx):
-    """An angle such as ``120 deg`` or a bare number of degrees, in (0, 180]."""
+def _number_with_unit(doc, key, where, unit_pattern, example):
+    """The number of ``doc[key]``, written bare or followed by a unit matching ``unit_pattern``
+    (units pint does not read here: degrees, S/m); its range is the caller's to check."""
     value = doc[key]
     text = value.strip() if isinstance(value, str) else value
     if isinstance(text, str):
-        text = re.sub(r"\s*(deg|degrees|°)$", "", text)
+        text = re.sub(rf"\s*({unit_pattern})$", "", text)
     try:
-        degrees = float(text)
+        return float(text)
     except (TypeError, ValueError):
-        raise ctx.child(doc, key).error(f"expected an angle such as 120 deg, got {value!r}") from None
+        raise where.error(f"expected {example}, got {value!r}") from None
+
+
+def _angle_rad(doc, key, ctx):
+    """An angle such as ``120 deg`` or a bare number of degrees, in (0, 180]."""
+    value = doc[key]
+    degrees = _number_with_unit(doc, key, ctx.child(doc, key), r"deg|degrees|°", "an angle such as 120 deg")
     if isinstance(value, bool) or not 0 < degrees <= 180:
         raise ctx.child(doc, key).error(f"an apex angle from above 0 to 180 deg, got {value!r}")
     return math.radians(degrees)
@@ -78,14 +85,8 @@ def _ground(doc, ctx):
     if isinstance(value, dict):
         mapping(value, where, required=("conductivity", "permittivity"))
         conductivity = value["conductivity"]
-        text = conductivity.strip() if isinstance(conductivity, str) else conductivity
-        if isinstance(text, str):
-            text = re.sub(r"\s*S/m$", "", text)
-        try:
-            sigma = float(text)
-        except (TypeError, ValueError):
-            raise where.child(value, "conductivity").error(
-                f"expected a conductivity such as 0.005 S/m, got {conductivity!r}") from None
+        sigma = _number_with_unit(value, "conductivity", where.child(value, "conductivity"), r"S/m",
+                                  "a conductivity such as 0.005 S/m")
         if isinstance(conductivity, bool) or not (math.isfinite(sigma) and 0 < sigma <= 1e3):
             raise where.child(value, "conductivity").error(f"a conductivity above 0 up to 1000 S/m, got {conductivity!r}")
         permittivity = number(value, "permittivity", where, low=1, high=100, low_open=False)
