@@ -8,20 +8,15 @@ import numpy as np
 from tabulate import tabulate
 
 from linecalc.studies.budget import BudgetResult
+from linecalc.studies import number_text
 from linecalc.physics.exposure import CAUTIONS
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
                  "radio-end SWR are averages over every phase, and the loss range shows least and most.")
 
 
-def _swr_text(swr):
-    return "inf" if not math.isfinite(swr) else f"{swr:.2f}"
-
-
-def _db(value):
-    """A figure in dB to two decimals; a rounding residue below zero prints as 0.00, not -0.00."""
-    text = f"{value:.2f}"
-    return "0.00" if text == "-0.00" else text
+_swr_text = number_text.swr_text  # one rounding for tables and explanations (studies/number_text.py)
+_db = number_text.db_text
 
 
 HOLDS_TEXT = {"forward": "forward power held by the radio", "net": "net power held by the radio"}
