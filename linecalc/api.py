@@ -14,6 +14,7 @@ from linecalc.io import cable_library, station_file
 from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
 from linecalc.studies import antenna_report, budget, length_advice, measured
 from linecalc.studies import compare as compare_study
+from linecalc.studies import explain as explain_study
 from linecalc.studies import figure_data, work_size
 from linecalc.studies.band_sweep import solve_band_sweeps
 from linecalc.studies.cable_listing import LISTING_FREQUENCIES_HZ, CableListing, cable_listing
@@ -38,12 +39,15 @@ def load_station(source) -> Station:
     return station_file.load_station(source)
 
 
-def solve_budget(station: Station, *, sweep_points: int | None = None) -> budget.BudgetResult:
+def solve_budget(station: Station, *, sweep_points: int | None = None, explain: bool = False) -> budget.BudgetResult:
     """The loss budget of every row (band or frequency): SWR at both ends, losses, watts.
 
     With ``sweep_points``, each band is also swept edge to edge at that many points (the
-    command's ``--sweep N``), and the result's ``sweeps`` holds one `BandSweep` per row.
-    ``to_dict()`` equals ``linecalc budget --format json`` (with ``--sweep N``).
+    command's ``--sweep N``), and the result's ``sweeps`` holds one `BandSweep` per row. With
+    ``explain``, its ``explanations`` hold the reasoning in words (the command's ``--explain``);
+    the station's own alternatives (the tuner at the other end of the main line, the cables of
+    its ``compare:`` key) are solved for it. ``to_dict()`` equals ``linecalc budget --format
+    json`` (with ``--sweep N``, ``--explain``).
     """
     if sweep_points is not None:
         _check_sweep_points(station, sweep_points)
@@ -51,6 +55,9 @@ def solve_budget(station: Station, *, sweep_points: int | None = None) -> budget
         result = budget.solve_budget(station)
         if sweep_points is not None:
             result = _with_sweeps(result, *solve_band_sweeps(station, sweep_points))
+        if explain:
+            result = explain_study.with_explanations(
+                result, explain_study.explain_budget(result, explain_study.own_alternatives(station)))
     return result
 
 
@@ -77,26 +84,34 @@ def _with_sweeps(result, swept, sweeps):
     return dataclasses.replace(result, sweeps=tuple(sweeps), warnings=result.warnings + swept.warnings)
 
 
-def solve_safety(station: Station) -> budget.BudgetResult:
+def solve_safety(station: Station, *, explain: bool = False) -> budget.BudgetResult:
     """The budget with its safety figures (voltage and current maxima on lines and tuner parts
     at PEP, RF-exposure distances): ``linecalc safety``. Its ``to_dict()`` is the same document
-    as the budget's, which carries those figures."""
-    return solve_budget(station)
+    as the budget's, which carries those figures; with ``explain``, its ``explanations`` hold the
+    safety topic in words (``linecalc safety --explain``)."""
+    result = solve_budget(station)
+    if explain:
+        result = explain_study.with_explanations(result, explain_study.explain_safety(result))
+    return result
 
 
 def solve_compare(station: Station, *, cables=(), tuner_positions=False, main_line=None, line=None,
-                  lengths_m=()) -> compare_study.Comparison:
+                  lengths_m=(), explain=False) -> compare_study.Comparison:
     """Alternatives of the station ranked band by band: ``linecalc compare``.
 
     The station file's ``compare:`` key is extended by these arguments, as by the command's
     options: ``cables`` library ids for the main line, ``tuner_positions`` the tuner at either
     end of the main line, ``main_line`` the line to replace (default the longest), ``line`` and
-    ``lengths_m`` [m] other lengths of a line.
+    ``lengths_m`` [m] other lengths of a line. With ``explain``, its ``explanations`` say row by
+    row which alternative wins and by how much (``linecalc compare --explain``).
     """
     spec = _compare_spec(station.compare, cables, tuner_positions, main_line, line, lengths_m)
     try:
         with errors_located(station):
-            return compare_study.compare(station, compare_study.alternatives_from_spec(station, spec))
+            comparison = compare_study.compare(station, compare_study.alternatives_from_spec(station, spec))
+            if explain:
+                comparison = explain_study.with_explanations(comparison, explain_study.explain_compare(comparison))
+            return comparison
     except compare_study.CompareError as exc:
         raise located(station, budget.BudgetError(str(exc), "compare"),
                       station.key_lines.get("compare") or station.key_lines.get("feed", 1)) from None

@@ -16,6 +16,27 @@ DEFAULT_SWEEP_POINTS = 101  # points per band for --sweep: 2 kHz steps on 40 m i
 
 
 
+EXPLAIN_HELP = "also say in words, row by row, what the figures mean (after the table, or in JSON)"
+
+
+def _explain_checked(args):
+    """--explain, refused with --format csv (a CSV has no place for paragraphs)."""
+    if args.explain and args.format == "csv":
+        raise OptionError("--explain: the explanations are printed with the table or in JSON "
+                          "(--format table or json)")
+    return args.explain
+
+
+def _explanations(result) -> str:
+    """A result's explanations as text, wrapped to the terminal (78 columns when not a terminal)."""
+    import shutil
+
+    from linecalc.render import explanations
+
+    width = shutil.get_terminal_size().columns if sys.stdout.isatty() else explanations.DEFAULT_WIDTH
+    return explanations.explanations_text(result.explanations, width) if result.explanations is not None else ""
+
+
 class _Parser(argparse.ArgumentParser):
     """argparse that exits with status 2 and one line on a usage error (its default, made explicit)."""
 
@@ -38,11 +59,13 @@ def build_parser() -> argparse.ArgumentParser:
     budget.add_argument("--radio-s1p", metavar="FILE.s1p",
                         help="write the impedance the radio sees (across the sweep with --sweep) as a Touchstone file")
     budget.add_argument("--force", action="store_true", help="overwrite an existing --radio-s1p file")
+    budget.add_argument("--explain", action="store_true", help=EXPLAIN_HELP)
 
     safety = commands.add_parser("safety", help="voltages on lines and tuner parts at PEP, RF-exposure distances, "
                                  "with the cautions")
     safety.add_argument("station", help="station file (YAML)")
     safety.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+    safety.add_argument("--explain", action="store_true", help=EXPLAIN_HELP)
 
     feedpoint = commands.add_parser("feedpoint", help="move a measured sweep from the shack (or a meter) to the "
                                     "antenna feedpoint: impedance and SWR across the sweep")
@@ -92,6 +115,7 @@ def build_parser() -> argparse.ArgumentParser:
     compare.add_argument("--line", metavar="LABEL", help="the line whose length --lengths varies")
     compare.add_argument("--format", choices=("table", "json", "csv"), default="table",
                          help="output format (default: table)")
+    compare.add_argument("--explain", action="store_true", help=EXPLAIN_HELP)
 
     antenna = commands.add_parser("antenna", help="a wire antenna on its own: impedance, SWR, nearest resonance, "
                                   "peak gain and wire loss per band; the length to cut for resonance")
@@ -152,12 +176,13 @@ def _run_budget(args) -> int:
         raise OptionError("--sweep: at least 2 points per band")
     if args.sweep is not None and args.format == "csv":
         raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
+    explain = _explain_checked(args)
     results, failed, internal = [], False, False
     for path in paths:
         try:
             station = api.load_station(path)
             try:
-                results.append(api.solve_budget(station, sweep_points=args.sweep))
+                results.append(api.solve_budget(station, sweep_points=args.sweep, explain=explain))
             except api.SweepPointsError as exc:
                 raise OptionError(f"--sweep: {exc}") from None
         except StationError as exc:
@@ -180,7 +205,7 @@ def _run_budget(args) -> int:
             sys.stdout.write(csv_text.budgets_csv(results) if len(paths) > 1 else csv_text.budget_csv(results[0]))
         else:
             sys.stdout.write("\n".join(tables.budget_table(r) + (tables.sweep_table(r.sweeps) if r.sweeps else "")
-                                       for r in results))
+                                       + _explanations(r) for r in results))
     for result in results:
         for warning in result.warnings:
             prefix = f"{result.station}: " if len(paths) > 1 else ""
@@ -200,14 +225,16 @@ def _run_compare(args) -> int:
 
     station = api.load_station(args.station)
     lengths_m = tuple(_length_option("--lengths", text) for text in args.lengths or ())
+    explain = _explain_checked(args)
     try:
         comparison = api.solve_compare(station, cables=args.cable, tuner_positions=args.tuner_positions,
-                                       main_line=args.main_line, line=args.line, lengths_m=lengths_m)
+                                       main_line=args.main_line, line=args.line, lengths_m=lengths_m,
+                                       explain=explain)
     except api.UnknownCableError as exc:
         raise OptionError(f"--cable: {exc}") from None
     except api.LengthError as exc:
         raise OptionError(f"--lengths: {exc}") from None
-    render = {"table": tables.compare_table, "json": lambda c: json_text.to_json(c.to_dict()),
+    render = {"table": lambda c: tables.compare_table(c) + _explanations(c), "json": lambda c: json_text.to_json(c.to_dict()),
               "csv": csv_text.compare_csv}[args.format]
     sys.stdout.write(render(comparison))
     for warning in comparison.warnings:
@@ -219,11 +246,11 @@ def _run_safety(args) -> int:
     from linecalc import api
     from linecalc.render import json_text, tables
 
-    result = api.solve_safety(api.load_station(args.station))
+    result = api.solve_safety(api.load_station(args.station), explain=args.explain)
     if args.format == "json":
         sys.stdout.write(json_text.to_json(result.to_dict()))
     else:
-        sys.stdout.write(tables.safety_table(result))
+        sys.stdout.write(tables.safety_table(result) + _explanations(result))
     for warning in result.warnings:
         print(f"warning: {warning}", file=sys.stderr)
     return EXIT_OK

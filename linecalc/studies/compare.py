@@ -100,6 +100,7 @@ class Comparison:
     warnings: tuple[str, ...] = ()
     line_study: LineStudy | None = None
     changes: tuple[tuple[str, ...], ...] = ()  # per alternative, what it added, moved or dropped
+    explanations: tuple | None = None  # --explain: `studies.explain.Explanation` entries; None: not asked
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc compare --format json``: per row, each alternative's
@@ -128,6 +129,8 @@ class Comparison:
                           "closed_form_loss_db": [finite_or_none(v) for v in study.closed_form_loss_db[:, i]],
                           "swr_load": [finite_or_none(v) for v in study.swr_load[:, i]]}
                          for i, label in enumerate(self.labels)]}
+        if self.explanations is not None:  # only when asked for (--explain): absent otherwise
+            doc["explanations"] = [e.to_dict() for e in self.explanations]
         return doc
 
 
