@@ -24,12 +24,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from linecalc.physics.cascade import swr_from_rho
+from linecalc.physics.source import rho_from_swr
 from linecalc.studies import explain_templates as t
 from linecalc.studies.budget import RADIO_SWR_WARNING, BudgetResult
 from linecalc.studies.compare import CompareError, Comparison, alternatives_from_spec, compare, main_line_index
 from linecalc.studies.json_values import json_value
 from linecalc.studies.number_text import db_text, watts_text
-from linecalc.studies.station import CompareSpec, Station
+from linecalc.studies.station import BudgetError, CompareSpec, Station
 
 TOPICS = ("compare", "swr", "tuner", "alternative", "radio", "watts", "safety")
 
@@ -46,7 +48,7 @@ HIDDEN_SWR = 3.0
 # change in signal strength a listener notices; an S unit is about 6 dB).
 NOTICEABLE_DB = 1.0
 # Above this peak voltage a spark can cross a small gap in air: the minimum of Paschen's curve
-# for air, about 327 V (Raizer, Gas Discharge Physics, chapter 7; from memory). Below it the
+# for air, about 327 V (Paschen's law, in any gas-discharge text; from memory). Below it the
 # danger named is the RF burn on contact.
 ARC_VOLTAGE_PEAK_V = 327.0
 # The heat sinks named, largest first.
@@ -75,11 +77,6 @@ def _figure_json(value):
     return json_value(value)
 
 
-def _rho(swr):
-    """|rho| from an SWR (1 <= swr < inf)."""
-    return (swr - 1) / (swr + 1)
-
-
 def _paragraph(parts):
     """The text and the figures of a topic from its (template, figures) sentences."""
     text = " ".join(t.sentence(template, **figures) for template, figures in parts)
@@ -100,7 +97,7 @@ def _swr(result: BudgetResult, i):
     swr_a, swr_r, ml = float(result.swr_antenna[i]), float(result.swr_radio[i]), float(result.matched_loss_db[i])
     if "tuner" in kinds or "line" not in kinds or not (np.isfinite(swr_a) and np.isfinite(swr_r)):
         return None
-    rho_a, rho_r = _rho(swr_a), _rho(swr_r)
+    rho_a, rho_r = float(rho_from_swr(swr_a)), float(rho_from_swr(swr_r))
     through = 10 ** (-ml / 10)  # what the two crossings of the matched loss leave of |rho|
     if abs(rho_r - rho_a * through) > CLOSED_FORM_RHO_TOLERANCE:
         parts = [(t.SWR_TRANSFORMED, {"swr_antenna": swr_a, "swr_radio": swr_r, "matched_loss_db": ml,
@@ -108,9 +105,9 @@ def _swr(result: BudgetResult, i):
     else:
         parts = [(t.SWR_THROUGH_LOSS, {"swr_antenna": swr_a, "rho_antenna": rho_a, "swr_radio": swr_r,
                                        "rho_radio": rho_r, "matched_loss_db": ml, "two_way_loss_db": 2 * ml})]
-        most = (1 + through) / (1 - through) if through < 1 else np.inf
+        most = float(swr_from_rho(through))  # an open or a short at the antenna: |rho| 1 there
         if most <= HIDDEN_SWR:
-            parts.append((t.SWR_HIDDEN, {"swr_radio_most": most}))
+            parts.append((t.SWR_HIDDEN, {"swr_radio_ceiling": most}))
     if result.total_loss_db_range is not None:
         parts.append((t.SWR_PHASE_AVERAGE, {}))
     return _paragraph(parts)
@@ -172,6 +169,9 @@ def _watts(result: BudgetResult, i):
     if not result.elements:
         return None
     p_radio, p_antenna = float(result.power_radio_w[i]), float(result.power_antenna_w[i])
+    ml, mismatch = float(result.matched_loss_db[i]), float(result.mismatch_loss_db[i])
+    if not (p_radio > 0 and np.all(np.isfinite([p_antenna, ml, mismatch]))):
+        return None  # no net power into the path, or a loss beyond a short: no split to tell
     heat = p_radio - p_antenna
     ranked = sorted(result.elements, key=lambda e: -e.dissipated_w[i])[:MAX_SINKS]
     sinks = [e for e in ranked if watts_text(e.dissipated_w[i]) != watts_text(0.0)] or ranked[:1]
@@ -179,7 +179,6 @@ def _watts(result: BudgetResult, i):
     sink_text = named[0] if len(named) == 1 else t.sentence(t.WATTS_LAST_SINK, sinks=", ".join(named[:-1]),
                                                             last=named[-1])
     split = {"power_radio_w": p_radio, "power_antenna_w": p_antenna, "heat_w": heat, "sinks": sink_text}
-    ml, mismatch = float(result.matched_loss_db[i]), float(result.mismatch_loss_db[i])
     if db_text(mismatch) == db_text(0.0):
         rest = (t.WATTS_MATCHED, {"matched_loss_db": ml})
     elif mismatch > 0:
@@ -247,7 +246,8 @@ class OwnAlternatives:
     """The station's own comparison, solved for ``explain_budget``: what ``linecalc compare``
     gives for the station (its ``compare:`` key), with the tuner at either end of the main line
     for a station with one tuner (as ``--tuner-positions``). ``kinds`` per alternative:
-    ("built",), ("cable", line label, cable id), ("tuner", name) or ("length", line label, m)."""
+    ("built",), ("cable", line label, cable id), ("tuner", "radio" or "antenna" end, line label) or
+    ("length", line label, m)."""
 
     comparison: Comparison
     kinds: tuple[tuple, ...]
@@ -265,15 +265,24 @@ def own_alternatives(station: Station) -> OwnAlternatives | None:
     spec = dataclasses.replace(spec, tuner_positions=spec.tuner_positions or one_tuner)
     try:
         alternatives = alternatives_from_spec(station, spec)
-    except CompareError:  # no line, no tuner to move, nothing to compare
-        return None
+        comparison = compare(station, alternatives)
+    except (CompareError, BudgetError):  # nothing to compare, or an alternative that cannot be solved:
+        return None                       # the budget is still explained, without this topic
     line_label = station.feed[main_line_index(station.feed, spec.main_line)].label
     varied = station.feed[main_line_index(station.feed, spec.line or spec.main_line)].label
     n_moved = len(alternatives) - 1 - len(spec.cables) - len(spec.lengths_m)
     kinds = ([("built",)] + [("cable", line_label, cable_id) for cable_id, _ in spec.cables]
-             + [("tuner", a.name) for a in alternatives[1 + len(spec.cables):1 + len(spec.cables) + n_moved]]
+             + [("tuner", _tuner_end(a.station, line_label), line_label)
+                for a in alternatives[1 + len(spec.cables):1 + len(spec.cables) + n_moved]]
              + [("length", varied, float(length)) for length in spec.lengths_m])
-    return OwnAlternatives(compare(station, alternatives), tuple(kinds))
+    return OwnAlternatives(comparison, tuple(kinds))
+
+
+def _tuner_end(station: Station, line_label):
+    """Which end of the line ``line_label`` the feed's tuner sits at: "radio" or "antenna"."""
+    kinds = [e.kind for e in station.feed]
+    line = next(k for k, e in enumerate(station.feed) if e.kind == "line" and e.label == line_label)
+    return "radio" if kinds.index("tuner") < line else "antenna"
 
 
 def _alternative(own: OwnAlternatives | None, i):
@@ -289,7 +298,7 @@ def _alternative(own: OwnAlternatives | None, i):
                "gain_db": 10 * np.log10(better / built) if built > 0 else np.inf}
     kind = own.kinds[w]
     if kind[0] == "tuner":
-        parts = [(t.ALTERNATIVE_TUNER, {"position": kind[1], **figures})]
+        parts = [(t.ALTERNATIVE_TUNER, {"end": kind[1], "line_label": kind[2], **figures})]
     elif kind[0] == "cable":
         parts = [(t.ALTERNATIVE_CABLE, {"line_label": kind[1], "cable_id": kind[2], **figures})]
     else:
@@ -321,7 +330,8 @@ def explain_safety(result: BudgetResult) -> tuple[Explanation, ...]:
 
 
 def _compare_row(comparison: Comparison, i):
-    """Which alternative wins row ``i`` against the station as built (alternative 0)."""
+    """Which alternative wins row ``i`` against the station as built (alternative 0); each named
+    with its number in the table, [1] for the first."""
     power = comparison.power_antenna_w[:, i]
     order = np.argsort(-power, kind="stable")
     w, built = int(comparison.winner[i]), float(power[0])
@@ -330,12 +340,12 @@ def _compare_row(comparison: Comparison, i):
     elif w != 0:
         winner = float(power[w])
         gain_db = 10 * np.log10(winner / built) if built > 0 else np.inf
-        parts = [(t.COMPARE_OTHER_WINS, {"winner": comparison.names[w], "power_winner_w": winner,
+        parts = [(t.COMPARE_OTHER_WINS, {"index": str(w + 1), "winner": comparison.names[w], "power_winner_w": winner,
                                          "power_as_built_w": built, "gain_db": gain_db})] + _small(gain_db)
     else:
         runner = int(order[1])
         parts = [(t.COMPARE_AS_BUILT_WINS, {"power_winner_w": built, "margin_db": float(comparison.margin_db[i]),
-                                            "runner_up": comparison.names[runner],
+                                            "index": str(runner + 1), "runner_up": comparison.names[runner],
                                             "power_runner_up_w": float(power[runner])})]
     return _paragraph(parts)
 

@@ -30,7 +30,7 @@ SWR_THROUGH_LOSS = (
     "twice, on the way up and on the way back, {two_way_loss_db} dB in all, so a meter at the radio "
     "reads {swr_radio}.")
 SWR_HIDDEN = (
-    "Even an open or a short at the antenna would read no more than {swr_radio_most} at the radio: "
+    "Even an open or a short at the antenna would read no more than {swr_radio_ceiling} at the radio: "
     "an SWR this low through this much loss says little about the antenna.")
 SWR_TRANSFORMED = (
     "The antenna's SWR of {swr_antenna} reads {swr_radio} at the radio, a change that the path's "
@@ -77,7 +77,7 @@ TUNER_UNNAMED = "tuner {label}"  # any other label: the tuner T1
 
 # What would deliver more, from a comparison of the station's own alternatives.
 ALTERNATIVE_TUNER = (
-    "With the {position}, {power_better_w} W would reach the antenna instead of {power_antenna_w} W "
+    "With the tuner moved to the {end} end of the {line_label}, {power_better_w} W would reach the antenna instead of {power_antenna_w} W "
     "({gain_db} dB more): linecalc compare --tuner-positions shows it.")
 ALTERNATIVE_CABLE = (
     "With the {line_label} made of {cable_id}, {power_better_w} W would reach the antenna instead of "
@@ -126,13 +126,13 @@ SMALL_DIFFERENCE = (
 
 # The comparison, row by row.
 COMPARE_OTHER_WINS = (
-    "{winner} delivers the most here: {power_winner_w} W at the antenna against {power_as_built_w} W "
+    "[{index}] {winner} delivers the most here: {power_winner_w} W at the antenna against {power_as_built_w} W "
     "as built ({gain_db} dB more).")
 COMPARE_TIE = (
     "The station as built does as well as any alternative here: {power_as_built_w} W at the antenna.")
 COMPARE_AS_BUILT_WINS = (
     "The station as built delivers the most here: {power_winner_w} W at the antenna, {margin_db} dB "
-    "ahead of {runner_up} ({power_runner_up_w} W).")
+    "ahead of [{index}] {runner_up} ({power_runner_up_w} W).")
 COMPARE_SAME_RADIO = (
     "Every alternative shows an SWR at the radio of {swr_radio_least} to {swr_radio_most}: a tuner "
     "makes the radio happy wherever it sits; what differs is the loss on the way to the antenna.")

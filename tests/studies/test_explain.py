@@ -21,7 +21,7 @@ from linecalc.physics.loads import ImpedanceTable
 DATA = Path(__file__).resolve().parent.parent / "data"
 STATIONS = sorted(p.name for p in DATA.glob("*.yaml"))
 DB_PER_NEPER = 20 / math.log(10)  # 8.686 dB per neper (Pozar, Microwave Engineering, 4th ed., section 2.7)
-NUMBER = re.compile(r"(?<![\w.-])-?\d+(?:\.\d+)?(?![\w-])")
+NUMBER = re.compile(r"(?<![\w.\[-])-?\d+(?:\.\d+)?(?![\w\]-])")  # not [2], the table's alternative number
 
 
 @pytest.fixture(scope="module")
@@ -87,7 +87,7 @@ def _expected_figures(row, doc, figures):
             expected[key] = [(row["swr_radio"] - 1) / (row["swr_radio"] + 1)]
         elif key == "two_way_loss_db":  # the reflection crosses the matched loss twice (ARRL Antenna Book)
             expected[key] = [2 * row["matched_loss_db"]]
-        elif key == "swr_radio_most":  # an open or short at the far end: |rho| = 10^(-ML/10)
+        elif key == "swr_radio_ceiling":  # an open or short at the far end: |rho| = 10^(-ML/10)
             r = 10 ** (-row["matched_loss_db"] / 10)
             expected[key] = [(1 + r) / (1 - r)]
         elif key == "heat_w":  # the table's path heat: radio watts less antenna watts
@@ -100,6 +100,8 @@ def _expected_figures(row, doc, figures):
                                     - row["power_antenna_w"]) / heat]
         elif key == "mismatch_loss_db_below":
             expected[key] = [-row["mismatch_loss_db"]]
+        elif key == "reference_impedance_ohm":
+            expected[key] = [doc["reference_impedance_ohm"]]
         elif key == "radio_setting_w":
             expected[key] = [doc["radio_power_w"]]
         elif key == "radio_cost_w":
@@ -234,13 +236,33 @@ def test_the_comparisons_own_explanations_follow_its_winner(data_path):
     for row in document["rows"]:
         entry = next(e for e in document["explanations"] if e["topic"] == "compare" and row["label"] in e["rows"])
         winner = next(a for a in row["alternatives"] if a["name"] == row["winner"])
-        assert entry["text"].startswith(row["winner"]) and f"{winner['power_antenna_w']:.1f} W" in entry["text"]
+        index = [a["name"] for a in row["alternatives"]].index(row["winner"]) + 1  # the table's [k]
+        if index == 1:
+            assert entry["text"].startswith("The station as built")
+        else:
+            assert entry["text"].startswith(f"[{index}] {row['winner']} delivers the most")
+        assert f"{winner['power_antenna_w']:.1f} W" in entry["text"]
+    names = set(document["alternatives"]) | {row["label"] for row in document["rows"]}
+    for entry in document["explanations"]:
+        values = list(entry["figures"].values())
+        for number in _numbers(entry["text"], names):
+            assert any(_printed_as(v, number) for v in values), (number, entry["text"])
     tuned = [e for e in document["explanations"] if e["topic"] == "tuner"]
     assert sum(len(e["rows"]) for e in tuned) == len(document["rows"])  # every alternative has a tuner at 1:1
 
 
 def _topics(result):
     return {e.topic for e in result.explanations}
+
+
+def test_a_line_of_another_impedance_is_not_told_as_the_two_way_loss(make_station, library):
+    # 450-ohm window line behind a 1:1 balun, read against 50 ohm at the radio: the line
+    # transforms the load, so |rho_radio| is not |rho_antenna| 10^(-ML/10) (ARRL Antenna Book,
+    # transmission-line chapter: the relation holds on a line terminated against its own Z0)
+    feed = [elements.Transformer("balun", 1.0, 0.2, 50.0), elements.Line(library["window-line-450"], 18.0, "ladder")]
+    result = linecalc.solve_budget(make_station(feed, [14.2e6], 600.0 + 200j, holds="forward"), explain=True)
+    text = next(e.text for e in result.explanations if e.topic == "swr")
+    assert "twice" not in text and "the path's impedances differ from the radio's 50 ohm" in text
 
 
 def test_no_tuner_sentence_without_a_tuner_and_no_swr_sentence_with_one(make_station, library):
@@ -265,6 +287,12 @@ def test_no_radio_sentence_where_the_radio_gives_up_nothing(make_station, librar
                                    explain=True)
     text = next(e.text for e in folded.explanations if e.topic == "radio")
     assert "fold back from 100 W to" in text and f"{folded.radio_forward_w[0]:.1f} W forward" in text
+    # a net-power source capped by its largest forward power: 100 W net into 400 ohm needs
+    # 100 / (1 - 0.78^2) = 256 W forward (Pozar, 4th ed., section 2.3), so a 150 W cap acts
+    capped = linecalc.solve_budget(make_station([coax], [7.1e6], 400.0, holds="net", max_power_w=150.0),
+                                   explain=True)
+    text = next(e.text for e in capped.explanations if e.topic == "radio")
+    assert "forward power to 150.0 W" in text and "short of its 100 W setting" in text
 
 
 def test_no_swr_or_watts_sentence_without_a_feed(make_station):
