@@ -25,10 +25,9 @@ from linecalc.studies.number_text import db_text, swr_text, watts_text
 
 # The SWR at the radio against the antenna's, through a path without a tuner.
 SWR_THROUGH_LOSS = (
-    "The antenna's SWR of {swr_antenna} (|rho| {rho_antenna}) reaches the radio as {swr_radio} "
-    "(|rho| {rho_radio}): the reflected wave crosses the path's {matched_loss_db} dB of matched loss "
-    "twice, on the way up and on the way back, {two_way_loss_db} dB in all, so a meter at the radio "
-    "reads {swr_radio}.")
+    "The antenna's SWR is {swr_antenna} (|rho| {rho_antenna}); the reflected wave crosses the path's "
+    "{matched_loss_db} dB of matched loss twice, up and back, {two_way_loss_db} dB in all, so |rho| "
+    "at the radio falls to {rho_radio} and a meter there reads {swr_radio}.")
 SWR_HIDDEN = (
     "Even an open or a short at the antenna would read no more than {swr_radio_ceiling} at the radio: "
     "an SWR this low through this much loss says little about the antenna.")
