@@ -24,15 +24,17 @@ DEMOS = ROOT / "stations"
 
 
 def test_every_demo_station_runs_through_budget(linecalc_command):
-    # the command takes a folder: one run, every *.yaml in it, exit status 2 if any of them fails
+    # the command takes a folder: one run, every *.yaml in it, exit status 2 if any of them fails;
+    # with --explain, so that every demo's paragraphs are made too
     stations = sorted(DEMOS.glob("*.yaml"))
     assert stations
-    result = linecalc_command("budget", DEMOS)
+    result = linecalc_command("budget", DEMOS, "--explain")
     assert result.returncode == 0, result.stderr
     assert "Traceback" not in result.stderr and "internal error" not in result.stderr
     for station in stations:  # one result set each, headed by the station's name
         name = yaml.safe_load(station.read_text(encoding="utf-8"))["name"]
         assert f"{name}: " in result.stdout, station.name
+    assert result.stdout.count("\nIn words:\n") == len(stations)
 
 
 def test_demo_sweep_deembeds_to_the_model_of_its_script():

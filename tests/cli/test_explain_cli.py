@@ -23,7 +23,7 @@ def test_the_paragraphs_follow_the_table_wrapped_to_78_columns(command, station,
 
 
 def test_a_number_and_its_unit_stay_on_one_line(cli, data_path):
-    _, out, _ = cli("budget", data_path("doublet-wall-coax.yaml"), "--explain")
+    _, out, _ = cli("budget", data_path("tuner-in-shack.yaml"), "--explain")
     words = out.partition("\nIn words:\n")[2]
     for line in words.splitlines():
         assert not line.split() or line.split()[0] not in ("W", "dB", "V", "m", "%")
