@@ -220,6 +220,9 @@ def render_report(station: Station, path, *, generated=None, force=False) -> tup
         if kind == "compare" and station.compare is None:
             figures.append(html_report.Figure(kind, skipped="the station file has no compare: key"))
             continue
+        if kind == "voltage" and not any(element.kind == "line" for element in station.feed):
+            figures.append(html_report.Figure(kind, skipped="the feed has no line to draw the voltage along"))
+            continue
         try:
             if kind in ("swr", "smith"):
                 _check_sweep_points(station, DEFAULT_SWEEP_POINTS)
@@ -252,6 +255,8 @@ def _checked_output(path, force, protected):
     """`linecalc.io.atomic.check_output`, its refusals as `ReportProblem` (before any work)."""
     from linecalc.io import atomic
 
+    if not Path(path).parent.is_dir():  # refused now rather than after the page is made
+        raise ReportProblem(f"{path}: cannot be written: no such folder {str(Path(path).parent)!r}")
     try:
         atomic.check_output(path, force=force, protected=protected)
     except atomic.OutputExistsError:

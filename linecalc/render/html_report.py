@@ -140,8 +140,15 @@ def _budget_view(doc):
                                             for label, e in m["rows"]]} for m in _by_element(rows, "meter")]
     tuner_views = [{"label": t["label"], "rows": [(label, *_tuner_setting(e)) for label, e in t["rows"]]}
                    for t in tuners]
+    measured = [(row["label"], _swr(row["measured"].get("swr_antenna_least")),
+                 _swr(row["measured"].get("swr_antenna_most")), _swr(row["measured"]["sensitivity"]))
+                for row in rows if "measured" in row]
+    wire = [(row["label"], _impedance(row["z_antenna_ohm"]), f"{row['wire']['peak_gain_dbi']:.1f}",
+             f"{row['wire']['wire_loss_db']:.3f}", f"{row['wire']['wire_heat_w']:.2f}") for row in rows if "wire" in row]
     return {"rows": budget_rows, "elements": elements, "meters": meters, "tuners": tuner_views,
-            "swr_only": swr_only, "has_tuner": bool(tuners), **_safety_view(doc)}
+            "swr_only": swr_only, "has_tuner": bool(tuners), "measured": measured,
+            "measured_reading": any("swr_antenna_least" in row.get("measured", {}) for row in rows), "wire": wire,
+            **_safety_view(doc)}
 
 
 def _safety_view(doc):

@@ -216,6 +216,18 @@ def test_print_css_keeps_figures_whole_and_sets_the_page(doublet):
     assert "figure { margin: 1em 0; break-inside: avoid;" in style
 
 
+def test_a_station_without_a_line_has_no_voltage_figure(write_file, tmp_path):
+    station = write_file("bare.yaml", "# Invented test station: an antenna straight on the radio.\nname: Bare\n"
+                                      "radio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
+                                      "antenna: {impedance: {7.1 MHz: 60+j10}}\nfeed: []\n")
+    linecalc.render_report(linecalc.load_station(station), tmp_path / "bare.html", generated=GENERATED)
+    page = Page((tmp_path / "bare.html").read_text(encoding="utf-8"))
+    assert [a["id"] for t, a in page.tags if t == "figure"] == ["figure-swr", "figure-smith", "figure-budget"]
+    assert "Not drawn for this station: the feed has no line to draw the voltage along." in page.text
+    assert "The feed is empty: the antenna is connected straight to the radio." in page.text
+    assert "element-table" not in page.tables
+
+
 ESCAPE_STATION = """\
 # Invented test station: every string the page shows is markup that must stay text.
 name: "<script>alert('name')</script> & <b>co</b>"
