@@ -160,6 +160,27 @@ def test_figures_that_do_not_apply_are_skipped_with_a_sentence(report_pages):
     assert "compare" not in page.ids()  # no comparison section without a compare: key
 
 
+def test_a_measured_reading_shows_its_range_at_the_antenna(report_pages, data_path):
+    page = Page(report_pages["shack-reading"].read_text(encoding="utf-8"))
+    doc = linecalc.solve_budget(linecalc.load_station(data_path("shack-reading.yaml"))).to_dict()
+    measured = doc["rows"][0]["measured"]
+    header, row = page.tables["measured-table"]
+    assert header == ["row", "least SWR at the antenna", "most SWR at the antenna", "error multiplier"]
+    assert row == ["14.2 MHz", f"{measured['swr_antenna_least']:.2f}", f"{measured['swr_antenna_most']:.2f}",
+                   f"{measured['sensitivity']:.2f}"]
+    assert "loss range dB" in page.tables["budget-table"][0]  # an SWR-only antenna
+
+
+def test_a_wire_antenna_row_shows_gain_loss_and_heat(plain_result):
+    doc = json.loads(json.dumps(plain_result.to_dict()))
+    for row in doc["rows"]:  # the keys a wire antenna adds (invented values: formatting only)
+        row["wire"] = {"peak_gain_dbi": 5.04, "wire_loss_db": 0.1234, "wire_heat_w": 2.345}
+    page = Page(html_report.report_html(doc, figures=[], version="0", generated=GENERATED))
+    header, *body = page.tables["wire-table"]
+    assert header == ["row", "feedpoint ohm", "peak gain dBi", "wire loss dB", "wire heat W"]
+    assert body[0] == ["7.1 MHz", "50.0+j0.0", "5.0", "0.123", "2.35"]
+
+
 def test_safety_section_holds_the_cautions_and_the_stress(doublet, doublet_doc):
     _, page = doublet
     for caution in doublet_doc["cautions"]:
