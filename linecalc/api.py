@@ -213,7 +213,11 @@ def render_report(station: Station, path, *, generated=None, force=False) -> tup
     _checked_output(path, force, protected)
     if generated is None:
         generated = datetime.datetime.now(datetime.timezone.utc)
-    result = solve_budget(station)
+    try:  # the budget with its band sweeps, as the swr figure draws them: their warnings too
+        _check_sweep_points(station, DEFAULT_SWEEP_POINTS)
+        result = solve_budget(station, sweep_points=DEFAULT_SWEEP_POINTS)
+    except SweepPointsError:  # too large a sweep: no swr figure either (said there)
+        result = solve_budget(station)
     comparison = solve_compare(station) if station.compare is not None else None
     figures = []
     for kind, _, _ in html_report.FIGURES:

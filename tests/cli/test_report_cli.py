@@ -54,6 +54,30 @@ def test_report_warnings_go_to_stderr(cli, data_path, tmp_path):
     assert "tuner at the antenna end of window line: the radio sees more than 2:1" in page
 
 
+# Invented test station: a radio's built-in tuner (max SWR 3 by default) facing a load whose SWR
+# is 4.4 at the 40 m band edges and 1.2 at the centre: it matches at the centre row, not at the
+# sweep points near the edges.
+BUILTIN_EDGES = """\
+name: Built-in tuner at the band edges
+region: 1
+radio: {power: 100 W}
+bands: [40m]
+antenna: {impedance: {7.0 MHz: 220+j0, 7.1 MHz: 60+j0, 7.2 MHz: 220+j0}}
+feed:
+  - tuner: {label: radio tuner, network: builtin}
+  - line: {label: coax, cable: rg-213, length: 5 m}
+"""
+
+
+def test_the_sweep_warnings_of_the_swr_figure_are_listed(cli, write_file, tmp_path):
+    station = write_file("edges.yaml", BUILTIN_EDGES)
+    code, out, err = cli("report", station, "--output", tmp_path / "edges.html")
+    assert code == 0 and out == ""
+    warning = "tuner radio tuner cannot match across the band on 40m at "
+    assert f"warning: {warning}" in err
+    assert warning in (tmp_path / "edges.html").read_text(encoding="utf-8")
+
+
 def test_an_existing_file_is_kept_without_force(cli, reading, tmp_path):
     output = tmp_path / "kept.html"
     output.write_text("mine")
