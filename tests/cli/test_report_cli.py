@@ -40,20 +40,6 @@ def test_report_writes_one_page_and_prints_nothing(cli, reading, tmp_path, monke
     assert "on 2026-01-02 00:00 UTC" in output.read_text(encoding="utf-8")
 
 
-def test_report_warnings_go_to_stderr(cli, data_path, tmp_path):
-    # the doublet's compare: key moves the tuner to the antenna end of the window line, where the
-    # radio sees more than 2:1 (one band keeps the report quick)
-    text = data_path("orchard-doublet.yaml").read_text(encoding="utf-8")
-    station = tmp_path / "doublet.yaml"
-    text = text.replace("[80m, 40m, 30m, 20m, 17m, 15m, 12m, 10m]", "[80m]")
-    station.write_text(text.replace("  cables: [rg-213, foam-10mm, open-wire-600]\n", ""), encoding="utf-8")
-    code, out, err = cli("report", station, "--output", tmp_path / "doublet.html")
-    assert code == 0 and out == ""
-    assert "warning: tuner at the antenna end of window line: the radio sees more than 2:1" in err
-    page = (tmp_path / "doublet.html").read_text(encoding="utf-8")
-    assert "tuner at the antenna end of window line: the radio sees more than 2:1" in page
-
-
 # Invented test station: a radio's built-in tuner (max SWR 3 by default) facing a load whose SWR
 # is 4.4 at the 40 m band edges and 1.2 at the centre: it matches at the centre row, not at the
 # sweep points near the edges.

@@ -237,42 +237,51 @@ def test_print_css_keeps_figures_whole_and_sets_the_page(doublet):
     assert "figure { margin: 1em 0; break-inside: avoid;" in style
 
 
-def test_a_station_without_a_line_has_no_voltage_figure(write_file, tmp_path):
-    station = write_file("bare.yaml", "# Invented test station: an antenna straight on the radio.\nname: Bare\n"
-                                      "radio: {power: 100 W}\nfrequencies: [7.1 MHz]\n"
-                                      "antenna: {impedance: {7.1 MHz: 60+j10}}\nfeed: []\n")
-    linecalc.render_report(linecalc.load_station(station), tmp_path / "bare.html", generated=GENERATED)
-    page = Page((tmp_path / "bare.html").read_text(encoding="utf-8"))
-    assert [a["id"] for t, a in page.tags if t == "figure"] == ["figure-swr", "figure-smith", "figure-budget"]
-    assert "Not drawn for this station: the feed has no line to draw the voltage along." in page.text
-    assert "The feed is empty: the antenna is connected straight to the radio." in page.text
-    assert "element-table" not in page.tables
-
-
+# Invented test station: every string the page shows is markup that must stay text; and its feed
+# has no line (a connector pair only), so it has no voltage figure.
 ESCAPE_STATION = """\
-# Invented test station: every string the page shows is markup that must stay text.
 name: "<script>alert('name')</script> & <b>co</b>"
 radio: {power: 100 W}
 frequencies: [7.1 MHz]
 antenna: {impedance: {7.1 MHz: 60+j10}}
 feed:
-  - line: {label: "<img src=x onerror=alert(1)>", cable: rg-213, length: 10 m}
+  - connector: {label: "<img src=x onerror=alert(1)>", count: 2}
 """
 
 
-def test_every_user_string_is_escaped(write_file, tmp_path):
-    station_path = write_file("escape.yaml", ESCAPE_STATION)
-    output = tmp_path / "escape.html"
-    linecalc.render_report(linecalc.load_station(station_path), output, generated=GENERATED)
-    text = output.read_text(encoding="utf-8")
-    page = Page(text)
-    assert "<script" not in text.lower()
-    assert "<img" not in text.lower()
+@pytest.fixture(scope="module")
+def escaped(tmp_path_factory):
+    folder = tmp_path_factory.mktemp("escape")
+    (folder / "escape.yaml").write_text(ESCAPE_STATION, encoding="utf-8")
+    linecalc.render_report(linecalc.load_station(folder / "escape.yaml"), folder / "escape.html", generated=GENERATED)
+    return (folder / "escape.html").read_text(encoding="utf-8")
+
+
+def test_every_user_string_is_escaped(escaped):
+    page = Page(escaped)
+    assert "<script" not in escaped.lower()
+    assert "<img" not in escaped.lower()
     assert not [tag for tag, _ in page.tags if tag in ("script", "img", "b")]
     assert page.headings[0] == ("h1", "<script>alert('name')</script> & <b>co</b>")
-    assert "&lt;script&gt;alert(&#39;name&#39;)&lt;/script&gt; &amp; &lt;b&gt;co&lt;/b&gt;" in text
+    assert "&lt;script&gt;alert(&#39;name&#39;)&lt;/script&gt; &amp; &lt;b&gt;co&lt;/b&gt;" in escaped
     assert page.pre == [ESCAPE_STATION]
-    assert page.tables["element-table"][0][1] == "line: <img src=x onerror=alert(1)>"
+    assert page.tables["element-table"][0][1] == "connector: <img src=x onerror=alert(1)>"
+
+
+def test_a_station_without_a_line_has_no_voltage_figure(escaped):
+    page = Page(escaped)
+    assert [a["id"] for t, a in page.tags if t == "figure"] == ["figure-swr", "figure-smith", "figure-budget"]
+    assert "Not drawn for this station: the feed has no line to draw the voltage along." in page.text
+    assert "line-stress-table" not in page.tables
+
+
+def test_an_empty_feed_is_said_so(plain_result):
+    doc = json.loads(json.dumps(plain_result.to_dict()))
+    for row in doc["rows"]:
+        row["elements"] = []
+    page = Page(html_report.report_html(doc, figures=[], version="0", generated=GENERATED))
+    assert "The feed is empty: the antenna is connected straight to the radio." in page.text
+    assert "element-table" not in page.tables
 
 
 def test_explanations_are_shown_when_a_document_carries_them(plain_result):
