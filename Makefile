@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV := .venv
 BIN := $(VENV)/bin
 
-.PHONY: demo test test-long bench clean
+.PHONY: demo test test-long bench clean browser
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -24,11 +24,22 @@ demo: $(VENV)/.installed
 	$(BIN)/linecalc budget stations/meadow-doublet-planned.yaml
 	$(BIN)/linecalc antenna stations/garden-inverted-v.yaml --cut-for 7.1MHz
 
-test: $(VENV)/.installed-test
+# Debian's chromium for the browser checks of the HTML report (tests/render/test_html_report_browser.py):
+# installed with apt-get when /usr/bin/chromium is missing and make runs as root; otherwise (or if
+# the package cannot be had) a message says why, and those tests are skipped with the same reason.
+browser:
+	@if [ -x /usr/bin/chromium ]; then :; \
+	elif [ "$$(id -u)" != 0 ] || ! command -v apt-get >/dev/null 2>&1; then \
+	  echo "make browser: /usr/bin/chromium is missing and this is not root with apt-get; the browser tests will be skipped"; \
+	elif ! (apt-get update && DEBIAN_FRONTEND=noninteractive apt-get install -y chromium); then \
+	  echo "make browser: apt-get could not install chromium; the browser tests will be skipped"; \
+	fi
+
+test: $(VENV)/.installed-test browser
 	$(BIN)/python -m pytest -q
 
 # The long checks the default run leaves out: the long fuzzing profile (random seeds) and slow tests.
-test-long: $(VENV)/.installed-test
+test-long: $(VENV)/.installed-test browser
 	$(BIN)/python -m pytest -q -m "fuzz_long or slow"
 
 bench: $(VENV)/.installed-test

@@ -198,10 +198,101 @@ def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP
     return plots.draw(data, path, force=force)
 
 
+class ReportProblem(InputError):
+    """A report that cannot be written: not an .html file, an existing file without ``force``,
+    one of the station's inputs, a device, a folder that is missing."""
+
+
+REPORT_SUFFIXES = (".html", ".htm")
+
+
+def render_report(station: Station, path, *, generated=None, force=False) -> tuple[str, ...]:
+    """Write the station's report into ``path``: one self-contained HTML page (the budget, each
+    element's heat, meter readings, tuner settings, every figure that applies as inline SVG, the
+    safety figures with their cautions, every warning and the station file): ``linecalc report``.
+
+    ``generated`` (a timezone-aware datetime) is the date the page states; None: now, in UTC.
+    Written atomically, never over an input, over an existing file only with ``force``.
+    Returns the warnings the page lists (the budget's, then the comparison's that it lacks).
+    """
+    import datetime
+    import importlib.metadata
+
+    from linecalc.io import atomic
+    from linecalc.render import html_report, plots
+
+    path = Path(path)
+    if path.suffix.lower() not in REPORT_SUFFIXES:
+        raise ReportProblem(f"a report file ends in .html, got {str(path)!r}")
+    protected = input_files(station)
+    _checked_output(path, force, protected)
+    if generated is None:
+        generated = datetime.datetime.now(datetime.timezone.utc)
+    try:  # the budget with its band sweeps, as the swr figure draws them: their warnings too
+        _check_sweep_points(station, DEFAULT_SWEEP_POINTS)
+        result = solve_budget(station, sweep_points=DEFAULT_SWEEP_POINTS)
+    except SweepPointsError:  # too large a sweep: no swr figure either (said there)
+        result = solve_budget(station)
+    comparison = solve_compare(station) if station.compare is not None else None
+    figures = []
+    for kind, _, _ in html_report.FIGURES:
+        if kind == "compare" and station.compare is None:
+            figures.append(html_report.Figure(kind, skipped="the station file has no compare: key"))
+            continue
+        if kind == "voltage" and not any(element.kind == "line" for element in station.feed):
+            figures.append(html_report.Figure(kind, skipped="the feed has no line to draw the voltage along"))
+            continue
+        try:
+            if kind in ("swr", "smith"):
+                _check_sweep_points(station, DEFAULT_SWEEP_POINTS)
+            with errors_located(station):
+                data = figure_data.figure_data(kind, station, sweep_points=DEFAULT_SWEEP_POINTS)
+            figures.append(html_report.Figure(kind, svg=plots.svg_text(data)))
+        except (figure_data.PlotProblem, SweepPointsError, StationError) as exc:
+            figures.append(html_report.Figure(kind, skipped=_reason(exc)))
+    try:
+        station_text = station_file.read_station_text(station.source_file)
+    except StationError:
+        station_text = None  # a station parsed from text, or a file gone since it was read
+    budget_doc, compare_doc = result.to_dict(), comparison.to_dict() if comparison is not None else None
+    page = html_report.report_html(budget_doc, figures=figures,
+                                   version=importlib.metadata.version("linecalc"),
+                                   generated=generated.astimezone(datetime.timezone.utc),
+                                   station_text=station_text, source_name=str(station.source_file),
+                                   compare_doc=compare_doc)
+    try:
+        atomic.write_atomically(path, lambda out: out.write(page.encode("utf-8")), binary=True,
+                                       force=force, protected=protected)
+    except atomic.OutputExistsError:  # appeared while the page was made
+        raise ReportProblem(f"{path}: exists; use --force to replace it") from None
+    except (atomic.OutputIsInputError, atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
+        raise ReportProblem(str(exc)) from None
+    return html_report.page_warnings(budget_doc, compare_doc)
+
+
+def _checked_output(path, force, protected):
+    """`linecalc.io.atomic.check_output`, its refusals as `ReportProblem` (before any work)."""
+    from linecalc.io import atomic
+
+    if not Path(path).parent.is_dir():  # refused now rather than after the page is made
+        raise ReportProblem(f"{path}: cannot be written: no such folder {str(Path(path).parent)!r}")
+    try:
+        atomic.check_output(path, force=force, protected=protected)
+    except atomic.OutputExistsError:
+        raise ReportProblem(f"{path}: exists; use --force to replace it") from None
+    except (atomic.OutputIsInputError, atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
+        raise ReportProblem(str(exc)) from None
+
+
+def _reason(exc):
+    """Why a figure does not apply, as a sentence's clause (a StationError without its FILE:LINE)."""
+    return exc.message if isinstance(exc, StationError) else str(exc)
+
+
 def input_files(station: Station) -> list[Path]:
     """The files a station reads (itself and its Touchstone sweep): an output may not replace them."""
     return station_file.input_files(station.source_file)
 
 
-__all__ = ["StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables", "load_station",
-           "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]
+__all__ = ["ReportProblem", "StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables",
+           "load_station", "render_report", "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]

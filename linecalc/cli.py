@@ -124,6 +124,12 @@ def build_parser() -> argparse.ArgumentParser:
                          help="also give the length to cut for resonance at this frequency, such as 14.1MHz")
     antenna.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
+    report = commands.add_parser("report", help="one self-contained HTML page of a station: budget, figures, "
+                                 "safety, warnings and the station file, to read offline, print or share")
+    report.add_argument("station", help="station file (YAML)")
+    report.add_argument("--output", required=True, metavar="FILE.html", help="the page to write")
+    report.add_argument("--force", action="store_true", help="overwrite an existing --output file")
+
     cables = commands.add_parser("cables", help="list the cable library with its matched loss")
     cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
     return parser
@@ -372,6 +378,37 @@ def _run_plot(args) -> int:
     return EXIT_OK
 
 
+def _report_date():
+    """The date a report states: SOURCE_DATE_EPOCH (seconds since 1970-01-01 UTC, the convention of
+    reproducible builds) if it is set, else None (now)."""
+    import datetime
+    import os
+
+    text = os.environ.get("SOURCE_DATE_EPOCH")
+    if text is None:
+        return None
+    try:
+        seconds = int(text.strip())
+        return datetime.datetime.fromtimestamp(seconds, datetime.timezone.utc)
+    except (ValueError, OverflowError, OSError):
+        raise OptionError(f"SOURCE_DATE_EPOCH: a whole number of seconds since 1970-01-01 UTC, got {text!r}") from None
+
+
+def _run_report(args) -> int:
+    from linecalc import api
+
+    generated = _report_date()
+    station = api.load_station(args.station)
+    try:
+        listed = api.render_report(station, args.output, generated=generated, force=args.force)
+    except api.ReportProblem as exc:
+        raise OptionError(f"--output: {exc}") from None
+    for warning in listed:
+        print(f"warning: {warning}", file=sys.stderr)
+    print(f"wrote {args.output}", file=sys.stderr)
+    return EXIT_OK
+
+
 def _run_antenna(args) -> int:
     from linecalc import api
     from linecalc.io.units import UnitError, parse_quantity
@@ -472,7 +509,8 @@ def _main(args) -> int:
             warnings.simplefilter("error", RuntimeWarning)
             return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
                     "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
-                    "antenna": _run_antenna, "cables": _run_cables}[args.command](args)
+                    "antenna": _run_antenna, "cables": _run_cables,
+                    "report": _run_report}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT

@@ -115,6 +115,16 @@ def test_the_wheel_ships_every_package_and_the_cable_files(installed):
     cables = {path.name for path in (ROOT / "cable_data").glob("*.yaml")}
     assert cables
     assert {f"linecalc/cable_data/{name}" for name in cables} <= names
+    # the report's template is package data too
+    assert "linecalc/render/templates/report.html.j2" in names
+
+
+def test_report_is_made_from_the_installed_template(installed):
+    result = installed.linecalc("report", "cabin.yaml", "--output", "cabin.html")
+    assert result.stdout == ""
+    page = (installed.work / "cabin.html").read_text(encoding="utf-8")
+    assert "<h1>Test cabin dipole</h1>" in page
+    assert page.count("<svg") == 4  # swr, smith, voltage, budget; no compare: key
 
 
 def test_cables_lists_the_library(installed):

@@ -505,3 +505,22 @@ def draw(data, path, *, force=False):
         raise figure_data.PlotProblem(f"{path}: {exc}") from None
     except (atomic.OutputNotFileError, atomic.OutputWriteError) as exc:
         raise figure_data.PlotProblem(str(exc)) from None
+
+
+def svg_text(data) -> str:
+    """The figure `draw` makes of ``data``, as SVG text to place inside an HTML page.
+
+    The drawing functions write files, so the figure is drawn into a private temporary folder,
+    read back and the folder removed. The text starts at the ``<svg`` element: the XML
+    declaration, the document type and the metadata block are left out (a page does not need
+    them, and the metadata names a web address that nothing should fetch).
+    """
+    import re
+    import tempfile
+
+    with tempfile.TemporaryDirectory(prefix="linecalc-figure-") as folder:
+        path = Path(folder) / "figure.svg"
+        draw(data, path)
+        text = path.read_text(encoding="utf-8")
+    text = text[text.index("<svg"):]
+    return re.sub(r"<metadata>.*?</metadata>\s*", "", text, count=1, flags=re.DOTALL)

@@ -75,3 +75,25 @@ def feedpoint_result(data_path):
     import linecalc
 
     return linecalc.solve_feedpoint(linecalc.load_station(data_path("shack-sweep-dipole.yaml")))
+
+
+# A fixed date for the reports (2026-01-01 00:00 UTC), as SOURCE_DATE_EPOCH would give.
+REPORT_DATE_EPOCH = 1767225600
+
+
+@pytest.fixture(scope="session")
+def report_pages(data_path, tmp_path_factory):
+    """The HTML reports of two test copies of the demos, made once: the doublet (a meter, a T
+    tuner, window line and a compare: key: every figure) and the shack reading (an SWR-only
+    antenna: no Smith chart, no voltage figure, no comparison). Name -> path."""
+    import datetime
+
+    import linecalc
+
+    folder = tmp_path_factory.mktemp("reports")
+    generated = datetime.datetime.fromtimestamp(REPORT_DATE_EPOCH, datetime.timezone.utc)
+    pages = {}
+    for name in ("orchard-doublet", "shack-reading"):
+        pages[name] = folder / f"{name}.html"
+        linecalc.render_report(linecalc.load_station(data_path(f"{name}.yaml")), pages[name], generated=generated)
+    return pages
