@@ -233,6 +233,10 @@ def render_report(station: Station, path, *, generated=None, force=False) -> tup
         result = solve_budget(station, sweep_points=DEFAULT_SWEEP_POINTS)
     except SweepPointsError:  # too large a sweep: no swr figure either (said there)
         result = solve_budget(station)
+    with errors_located(station):  # the page explains as --explain does: budget topics, then safety
+        result = explain_study.with_explanations(
+            result, explain_study.explain_budget(result, explain_study.own_alternatives(station))
+            + explain_study.explain_safety(result))
     comparison = solve_compare(station) if station.compare is not None else None
     figures = []
     for kind, _, _ in html_report.FIGURES:

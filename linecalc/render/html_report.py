@@ -17,6 +17,8 @@ import math
 import re
 from dataclasses import dataclass
 
+from linecalc.render.explanations import TOPIC_HEADINGS
+
 # What each figure shows, in the order of the page: (kind, title, caption).
 FIGURES = (
     ("swr", "SWR across each band",
@@ -192,18 +194,18 @@ def _compare_view(doc):
 
 
 def _explanations(*documents):
-    """The ``explanations`` lists of the documents that carry one (row, topic, text, figures),
-    each entry once, in order; empty where none does."""
+    """The ``explanations`` lists of the documents that carry one, each entry once, in order, as
+    {row, heading, text}: the heading is the topic as the text output names it; empty where none does."""
     seen, found = set(), []
     for doc in documents:
         for item in (doc or {}).get("explanations") or ():
             if not isinstance(item, dict):
                 continue
-            entry = (str(item.get("row") or ""), str(item.get("topic") or ""), str(item.get("text") or ""),
-                     tuple(str(f) for f in item.get("figures") or ()))
+            topic = str(item.get("topic") or "")
+            entry = (str(item.get("row") or ""), TOPIC_HEADINGS.get(topic, topic), str(item.get("text") or ""))
             if entry not in seen:
                 seen.add(entry)
-                found.append(dict(zip(("row", "topic", "text", "figures"), entry)))
+                found.append(dict(zip(("row", "heading", "text"), entry)))
     return found
 
 

@@ -5,12 +5,14 @@ document carries them."""
 from __future__ import annotations
 
 import datetime
+import html
 import json
 from html.parser import HTMLParser
 
 import pytest
 
 import linecalc
+from linecalc import api
 from linecalc.render import html_report
 
 GENERATED = datetime.datetime(2026, 1, 1, tzinfo=datetime.timezone.utc)
@@ -102,7 +104,8 @@ def test_the_page_holds_every_section_in_order(doublet):
     assert [i for i in ids if i in expected] == expected
     assert page.headings[0] == ("h1", "Orchard house, 40 m doublet on 450-ohm window line")
     h2 = [text for level, text in page.headings if level == "h2"]
-    assert h2 == ["Warnings", "Loss budget", "Figures", "Safety", "Alternatives", "The station file",
+    assert h2 == ["Warnings", "Loss budget", "Figures", "Safety", "Alternatives", "Explanations",
+                  "The station file",
                   "About these figures"]
 
 
@@ -289,16 +292,30 @@ def test_explanations_are_shown_when_a_document_carries_them(plain_result):
     assert "explanations" not in doc
     plain = html_report.report_html(doc, figures=[], version="0", generated=GENERATED)
     assert 'id="explanations"' not in plain
-    doc["explanations"] = [{"row": "7.1 MHz", "topic": "<i>why</i>", "text": "The coax loses a little.",
-                            "figures": ["budget", "smith"]}]
-    figures = [html_report.Figure("budget", svg='<svg id="a"></svg>'), html_report.Figure("smith", skipped="none")]
-    text = html_report.report_html(doc, figures=figures, version="0", generated=GENERATED)
+    doc["explanations"] = [{"row": "7.1 MHz", "rows": ["7.1 MHz"], "topic": "<i>why</i>",
+                            "text": "The coax loses a little.", "figures": {"loss_db": 0.4}},
+                           {"row": "7.1 MHz", "rows": ["7.1 MHz"], "topic": "watts", "text": "Most watts arrive.",
+                            "figures": {}}]
+    text = html_report.report_html(doc, figures=[], version="0", generated=GENERATED)
     page = Page(text)
     assert "explanations" in page.ids()
     assert "&lt;i&gt;why&lt;/i&gt;" in text and "The coax loses a little." in text
-    # a link to a drawn figure only
-    assert ("a", {"href": "#figure-budget"}) in page.tags
-    assert ("a", {"href": "#figure-smith"}) not in page.tags
+    # a known topic is headed as the text output heads it
+    assert "7.1 MHz, where the watts go" in page.text and "Most watts arrive." in page.text
+
+
+def test_the_report_explains_the_budget_and_safety(tmp_path, data_path):
+    """The page carries the same paragraphs as ``budget --explain`` and ``safety --explain``."""
+    station = api.load_station(data_path("tuner-in-shack.yaml"))
+    out = tmp_path / "r.html"
+    api.render_report(station, out)
+    text = out.read_text(encoding="utf-8")
+    expected = (api.solve_budget(station, explain=True).explanations
+                + api.solve_safety(station, explain=True).explanations)
+    assert expected
+    shown = html.unescape(text)
+    for entry in expected:
+        assert entry.text in shown
 
 
 def test_inline_svg_prefixes_ids_and_their_references():
