@@ -239,6 +239,13 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
         raise OptionError(str(exc)) from None
 
 
+def _input_warnings(station):
+    """The warnings of reading a station's inputs, on stderr, for a command whose document has no
+    `warnings` (the budget, safety and compare results carry them)."""
+    for warning in station.input_warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+
+
 def _run_feedpoint(args) -> int:
     from linecalc import api
     from linecalc.render import csv_text, json_text, tables
@@ -252,6 +259,7 @@ def _run_feedpoint(args) -> int:
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
                    api.input_files(station))
     sys.stdout.write(render(result))
+    _input_warnings(station)
     if result.sweep.active.any():
         print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(result.sweep.active.sum())} points: "
               "the described path does not match the measurement there", file=sys.stderr)
@@ -325,6 +333,7 @@ def _run_advise(args) -> int:
         sys.stdout.write(json_text.to_json(result.to_dict(args.top)))
     else:
         sys.stdout.write(tables.advice_table(result, args.top))
+    _input_warnings(station)
     return EXIT_OK
 
 
@@ -342,6 +351,7 @@ def _run_plot(args) -> int:
     except api.SweepPointsError as exc:
         raise OptionError(f"--sweep: {exc}") from None
     print(f"wrote {args.output}", file=sys.stderr)
+    _input_warnings(station)
     return EXIT_OK
 
 

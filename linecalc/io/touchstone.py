@@ -10,6 +10,7 @@ from __future__ import annotations
 import io
 import re
 from pathlib import Path
+from typing import NamedTuple
 
 import numpy as np
 from linecalc.errors import InputError
@@ -197,6 +198,38 @@ def _check_reference(path, number, tokens):
                                                 f"{MAX_REFERENCE_OHM:g} ohm, got {token!r}")
 
 
+class Sweep(NamedTuple):
+    """A one-port sweep as read: frequencies [Hz], impedances [ohm], and warnings about how the
+    file was read (text for people: a 1.x file without an option line)."""
+
+    frequency_hz: np.ndarray
+    z_ohm: np.ndarray
+    warnings: tuple[str, ...]
+
+
+def read_sweep(path) -> Sweep:
+    """`read_one_port`, with the warnings of the reading.
+
+    A 1.x file without an option line is read with the defaults the Touchstone specification
+    gives such a file, GHz, S, MA and R 50, and a warning names the file and says so: a sweep
+    written in MHz without its option line would otherwise be read a thousand times too high in
+    frequency without a word.
+
+    References
+    ----------
+    Touchstone File Format Specification, version 2.0 (IBIS Open Forum, 2009), the option line
+    and its defaults (from memory).
+    """
+    path = Path(path)
+    frequency_hz, z_ohm, option_line = _read(path)
+    warnings = ()
+    if option_line is None:
+        warnings = (f"{path}: no option line, so its data are read as the Touchstone specification's defaults: "
+                    "frequencies in GHz, S parameters as magnitude and angle, 50 ohm reference; if that is not "
+                    "what the file holds, add its option line (for example '# MHz S RI R 50')",)
+    return Sweep(frequency_hz, z_ohm, warnings)
+
+
 def read_one_port(path):
     """Read a one-port Touchstone file (1.x or 2.x) as impedance against frequency.
 
@@ -236,7 +269,13 @@ def read_one_port(path):
     Microwave Engineering, 4th ed., section 2.3 (Z from rho) and section 2.4 (normalised
     admittance y = Y Z0).
     """
-    path = Path(path)
+    frequency_hz, z_ohm, _ = _read(Path(path))
+    return frequency_hz, z_ohm
+
+
+def _read(path: Path):
+    """The body of `read_one_port`: frequencies, impedances and the option line's number (None
+    for a file without one)."""
     text = _read_text(path)
     option_line, rows = _scan(path, text)
     where = option_line or rows[0]
@@ -269,7 +308,7 @@ def read_one_port(path):
     else:
         admittance = raw / resistance if version1 else raw
         z_ohm = _divide(np.ones_like(admittance), admittance)
-    return frequency_hz, z_ohm
+    return frequency_hz, z_ohm, option_line
 
 
 def _divide(numerator, denominator):
