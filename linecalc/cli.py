@@ -166,7 +166,7 @@ def _run_budget(args) -> int:
             print(str(exc), file=sys.stderr)
             failed = True
         except Exception as exc:  # a fault of linecalc's on one station of a batch: named, the others go on
-            if len(paths) == 1 or isinstance(exc, InputError):
+            if len(paths) == 1 or isinstance(exc, InputError) or _Interrupt.received:
                 raise
             print(printable(f"{path}: internal error: {type(exc).__name__}: {exc}"), file=sys.stderr)
             internal = True
@@ -404,9 +404,24 @@ def _terminate(signum, frame):
     raise _Terminated(signum)
 
 
+class _Interrupt:
+    """Ctrl-C (SIGINT) as Python's own handler gives it, a KeyboardInterrupt where the program is,
+    and remembered: a C extension's module initialisation can turn that KeyboardInterrupt into an
+    ImportError ('initialization failed', as matplotlib's compiled modules do while `plot`
+    imports them), and the command must still end as interrupted, not as an internal error."""
+
+    received = False
+
+    @classmethod
+    def handle(cls, signum, frame):
+        cls.received = True
+        raise KeyboardInterrupt
+
+
 @contextlib.contextmanager
 def _signals_raise():
-    """SIGTERM and SIGHUP raise `_Terminated` inside the block (main thread only; restored after)."""
+    """SIGTERM and SIGHUP raise `_Terminated` inside the block, SIGINT a remembered
+    KeyboardInterrupt (`_Interrupt`) (main thread only; restored after)."""
     import signal
     import threading
 
@@ -414,7 +429,10 @@ def _signals_raise():
     if threading.current_thread() is not threading.main_thread():
         yield
         return
+    _Interrupt.received = False
     previous = {name: signal.signal(getattr(signal, name), _terminate) for name in names}
+    if signal.getsignal(signal.SIGINT) is signal.default_int_handler:  # not where SIGINT is ignored
+        previous["SIGINT"] = signal.signal(signal.SIGINT, _Interrupt.handle)
     try:
         yield
     finally:
@@ -465,6 +483,8 @@ def _main(args) -> int:
     except BrokenPipeError:
         return EXIT_OK
     except Exception as exc:  # the promise of exit status 1: an internal error, reported in one line
+        if _Interrupt.received:  # a Ctrl-C that an import turned into another exception
+            raise KeyboardInterrupt from None
         print(f"linecalc: internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
         return EXIT_INTERNAL
 
