@@ -152,8 +152,8 @@ def safety_table(result: BudgetResult) -> str:
                      f"{r['voltage_max_at_m'][i]:.1f}", f"{r['current_max_rms_a'][i]:.2f}", f"{r['current_max_at_m'][i]:.1f}",
                      f"{r['voltage_margin'][i]:.1f}" if "voltage_margin" in r else "no rating",
                      f"{r['power_margin'][i]:.1f}" if "power_margin" in r else "no rating",
-                     f"{r['heat_max_w_per_m'][i]:.2f} / {r['heat_rating_w_per_m'][i]:.2f}" if "heat_max_w_per_m" in r
-                     else "no rating"]
+                     f"{r['heat_max_w_per_m'][i]:.2f} / "
+                     + (f"{r['heat_rating_w_per_m'][i]:.2f}" if "heat_rating_w_per_m" in r else "no rating")]
                     for i, label in enumerate(result.labels)]
             lines += [f"Line {e.label} at PEP (positions from its radio end; margins are rating / stress, below 1 "
                       "is over the rating):",

@@ -45,8 +45,8 @@ def line_stress(solution, index, line, frequency_hz, labels, swr_only, average_f
     }
     warnings = []
     rating_w = line.cable.power_rating_w(frequency_hz)
+    readings.update(_heat_readings(solution, index, line, frequency_hz, swr_only, average_fraction, rating_w))
     if rating_w is not None:
-        readings.update(_heat_readings(solution, index, line, frequency_hz, swr_only, average_fraction, rating_w))
         over = [f"{label} ({h:.1f} W/m at {x:.1f} m, rated {r:.1f} W/m)" for label, h, x, r, m in
                 zip(labels, readings["heat_max_w_per_m"], readings["heat_max_at_m"],
                     readings["heat_rating_w_per_m"], readings["power_margin"]) if m < 1]
@@ -69,13 +69,12 @@ def line_stress(solution, index, line, frequency_hz, labels, swr_only, average_f
 
 
 def _heat_readings(solution, index, line, frequency_hz, swr_only, average_fraction, rating_w):
-    """The heat per metre at the line's hottest point at average power, against its rating.
+    """The heat per metre at the line's hottest point at average power, and, where the cable has
+    a power rating (``rating_w`` [W] per row, or None), the heat its rating allows there.
 
     The allowed heat per metre is the matched rating's heat, 2 Re(gamma) P_rating: a hot spot of
     a standing wave that takes SWR times the matched heat reaches it at the rating over the SWR.
     """
-    _, gamma = line.cable.constants(frequency_hz)
-    matched_heat_per_w = 2 * gamma.real  # heat per metre per watt on a matched line [1/m]
     hot = line_heat_in_path(solution, index, line, frequency_hz)
     heat = hot.heat_w_per_m * average_fraction
     if swr_only:
@@ -84,11 +83,16 @@ def _heat_readings(solution, index, line, frequency_hz, swr_only, average_fracti
         heat = np.max(heat, axis=0)
     else:
         position = hot.position_m
+    readings = {"heat_max_w_per_m": heat, "heat_max_at_m": position}
+    if rating_w is None:
+        return readings
+    _, gamma = line.cable.constants(frequency_hz)
+    matched_heat_per_w = 2 * gamma.real  # heat per metre per watt on a matched line [1/m]
     heat_rating = rating_w * matched_heat_per_w
     # a line that carries no current (beyond a short) heats not at all: its margin is unbounded
     margin = np.divide(heat_rating, heat, out=np.full(heat.shape, np.inf), where=heat > 0)
-    return {"heat_max_w_per_m": heat, "heat_max_at_m": position, "heat_rating_w_per_m": heat_rating,
-            "power_rating_w": rating_w, "heating_power_w": heat / matched_heat_per_w, "power_margin": margin}
+    return {**readings, "heat_rating_w_per_m": heat_rating, "power_rating_w": rating_w,
+            "heating_power_w": heat / matched_heat_per_w, "power_margin": margin}
 
 
 def tuner_stress(design, voltage_in_v, current_in_a, tuner, labels, swr_only):

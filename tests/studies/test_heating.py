@@ -70,3 +70,18 @@ def test_average_power_sets_the_heat(library, make_station):
     full = _line_readings(solve_budget(station))[1]
     speech = _line_readings(solve_budget(dataclasses.replace(station, duty_factor=0.2, transmit_fraction=0.5)))[1]
     assert speech["heat_max_w_per_m"][0] == pytest.approx(0.1 * full["heat_max_w_per_m"][0], rel=1e-12)
+
+
+def test_a_line_without_a_rating_still_reports_its_hottest_point(make_station):
+    # an inline cable without max_power: the heat is reported, no rating is judged (docs/json.md)
+    from linecalc.physics.cables import cable_from_points
+
+    cable = cable_from_points("inline", "test", "coax", 50.0, 0.66, np.array([1e6, 10e6, 100e6]),
+                              np.array([0.005, 0.016, 0.05]))
+    z0, _ = cable.constants(F_40M_HZ)
+    result = solve_budget(make_station([Line(cable, 10.0)], F_40M_HZ, z0, power_w=100.0))
+    _, r = _line_readings(result)
+    alpha_np_per_m = cable.matched_loss_db_per_m(F_40M_HZ)[0] / 8.686
+    # matched: 2 alpha P at the radio end (Pozar, Microwave Engineering, 4th ed., section 2.7)
+    assert r["heat_max_w_per_m"][0] == pytest.approx(2 * alpha_np_per_m * 100.0, rel=1e-3)
+    assert not {"heat_rating_w_per_m", "power_rating_w", "power_margin", "heating_power_w"} & set(r)
