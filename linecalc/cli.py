@@ -197,7 +197,7 @@ def _run_budget(args) -> int:
             print(str(exc), file=sys.stderr)
             failed = True
         except Exception as exc:  # a fault of linecalc's on one station of a batch: named, the others go on
-            if len(paths) == 1 or isinstance(exc, InputError):
+            if len(paths) == 1 or isinstance(exc, InputError) or _Interrupt.received:
                 raise
             print(printable(f"{path}: internal error: {type(exc).__name__}: {exc}"), file=sys.stderr)
             internal = True
@@ -272,6 +272,13 @@ def _write_s1p(path, frequency_hz, z_ohm, z_ref_ohm, comment, force, inputs):
         raise OptionError(str(exc)) from None
 
 
+def _input_warnings(station):
+    """The warnings of reading a station's inputs, on stderr, for a command whose document has no
+    `warnings` (the budget, safety and compare results carry them)."""
+    for warning in station.input_warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+
+
 def _run_feedpoint(args) -> int:
     from linecalc import api
     from linecalc.render import csv_text, json_text, tables
@@ -285,6 +292,7 @@ def _run_feedpoint(args) -> int:
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
                    api.input_files(station))
     sys.stdout.write(render(result))
+    _input_warnings(station)
     if result.sweep.active.any():
         print(f"warning: the recovered feedpoint is active (|rho| > 1) at {int(result.sweep.active.sum())} points: "
               "the described path does not match the measurement there", file=sys.stderr)
@@ -358,6 +366,7 @@ def _run_advise(args) -> int:
         sys.stdout.write(json_text.to_json(result.to_dict(args.top)))
     else:
         sys.stdout.write(tables.advice_table(result, args.top))
+    _input_warnings(station)
     return EXIT_OK
 
 
@@ -375,6 +384,7 @@ def _run_plot(args) -> int:
     except api.SweepPointsError as exc:
         raise OptionError(f"--sweep: {exc}") from None
     print(f"wrote {args.output}", file=sys.stderr)
+    _input_warnings(station)
     return EXIT_OK
 
 
@@ -458,9 +468,24 @@ def _terminate(signum, frame):
     raise _Terminated(signum)
 
 
+class _Interrupt:
+    """Ctrl-C (SIGINT) as Python's own handler gives it, a KeyboardInterrupt where the program is,
+    and remembered: a C extension's module initialisation can turn that KeyboardInterrupt into an
+    ImportError ('initialization failed', as matplotlib's compiled modules do while `plot`
+    imports them), and the command must still end as interrupted, not as an internal error."""
+
+    received = False
+
+    @classmethod
+    def handle(cls, signum, frame):
+        cls.received = True
+        raise KeyboardInterrupt
+
+
 @contextlib.contextmanager
 def _signals_raise():
-    """SIGTERM and SIGHUP raise `_Terminated` inside the block (main thread only; restored after)."""
+    """SIGTERM and SIGHUP raise `_Terminated` inside the block, SIGINT a remembered
+    KeyboardInterrupt (`_Interrupt`) (main thread only; restored after)."""
     import signal
     import threading
 
@@ -468,7 +493,10 @@ def _signals_raise():
     if threading.current_thread() is not threading.main_thread():
         yield
         return
+    _Interrupt.received = False
     previous = {name: signal.signal(getattr(signal, name), _terminate) for name in names}
+    if signal.getsignal(signal.SIGINT) is signal.default_int_handler:  # not where SIGINT is ignored
+        previous["SIGINT"] = signal.signal(signal.SIGINT, _Interrupt.handle)
     try:
         yield
     finally:
@@ -520,6 +548,8 @@ def _main(args) -> int:
     except BrokenPipeError:
         return EXIT_OK
     except Exception as exc:  # the promise of exit status 1: an internal error, reported in one line
+        if _Interrupt.received:  # a Ctrl-C that an import turned into another exception
+            raise KeyboardInterrupt from None
         print(f"linecalc: internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
         return EXIT_INTERNAL
 

@@ -1,6 +1,7 @@
 """Small elements of the feed path: a connector (a series resistance), a choke (its differential
 path a short line section), a current balun or transformer (its winding a short line section, then
-an ideal transformer), an in-line meter, and a resistor, inductor and capacitor part."""
+an ideal transformer), a voltage balun (winding resistance, finite-Q magnetising inductance, ideal
+transformer), an in-line meter, and a resistor, inductor and capacitor part."""
 from __future__ import annotations
 
 from dataclasses import dataclass
@@ -10,7 +11,7 @@ import numpy as np
 from linecalc.elements.base import PartDefaults
 from linecalc.physics.cascade import cascade_abcd, swr_from_rho, wave_powers
 from linecalc.physics.lumped import part_impedance_ohm, series_abcd, shunt_abcd
-from linecalc.physics.small_parts import connector_abcd, winding_abcd
+from linecalc.physics.small_parts import connector_abcd, voltage_balun_abcd, voltage_balun_winding_ohm, winding_abcd
 from linecalc.physics.twoports import attenuator_abcd, terminated_loss_db, transformer_abcd
 
 
@@ -23,6 +24,11 @@ CHOKE_LENGTH_M = 1.5
 CHOKE_VELOCITY_FACTOR = 0.66
 BALUN_LENGTH_M = 1.0
 BALUN_VELOCITY_FACTOR = 0.7
+# A voltage balun's magnetising branch: the winding's reactance at least four times the impedance
+# it works at, at the lowest frequency (common practice): 4 x 50 ohm at 1.8 MHz is 17.7 uH,
+# rounded up to 20 uH; a Q of 20 for the ferrite of HF baluns (from memory: 10 to 50 at HF).
+VOLTAGE_BALUN_INDUCTANCE_H = 20e-6
+VOLTAGE_BALUN_CORE_Q = 20.0
 
 
 @dataclass(frozen=True)
@@ -125,6 +131,51 @@ class Transformer(PartDefaults):
 
     def matched_loss_db(self, frequency_hz):
         return np.full(np.shape(frequency_hz), self.loss_db)
+
+
+@dataclass(frozen=True)
+class VoltageBalun(PartDefaults):
+    """A voltage (transformer) balun of impedance ratio n: winding resistance in series, a
+    magnetising inductance ``inductance_h`` of Q ``core_q`` across, then an ideal transformer
+    (`physics.small_parts.voltage_balun_abcd`). The winding resistance is set at each frequency so
+    that the part loses ``loss_db`` between reference terminations; where the core alone loses
+    more (too little inductance for the band), the winding is taken as lossless, the part loses
+    its core loss, and a notice says so.
+    """
+
+    label: str
+    impedance_ratio: float
+    loss_db: float
+    z_ref_ohm: float
+    input_balanced: bool = False
+    output_balanced: bool = True
+    inductance_h: float = VOLTAGE_BALUN_INDUCTANCE_H
+    core_q: float = VOLTAGE_BALUN_CORE_Q
+    kind: str = "balun"
+
+    def abcd(self, frequency_hz):
+        return voltage_balun_abcd(frequency_hz, self.loss_db, self.z_ref_ohm, self.impedance_ratio,
+                                  self.inductance_h, self.core_q)
+
+    def port_z0_ohm(self, frequency_hz):
+        z = np.full(np.shape(frequency_hz), complex(self.z_ref_ohm))
+        return z, z * self.impedance_ratio
+
+    def matched_loss_db(self, frequency_hz):
+        _, core_db = voltage_balun_winding_ohm(frequency_hz, self.loss_db, self.z_ref_ohm, self.inductance_h,
+                                               self.core_q)
+        return np.maximum(core_db, self.loss_db)
+
+    def notices(self, frequency_hz, labels):
+        """Warnings for the rows where the core alone loses more than the balun's ``loss``."""
+        _, core_db = voltage_balun_winding_ohm(frequency_hz, self.loss_db, self.z_ref_ohm, self.inductance_h,
+                                               self.core_q)
+        over = [f"{label} ({db:.2f} dB)" for label, db in zip(labels, core_db) if db > self.loss_db]
+        if not over:
+            return []
+        return [f"balun {self.label}: its core alone loses more than its {self.loss_db:g} dB on {', '.join(over)} "
+                f"(magnetising inductance {self.inductance_h * 1e6:g} uH of Q {self.core_q:g} is too little "
+                "for that frequency); the core loss is used there"]
 
 
 @dataclass(frozen=True)

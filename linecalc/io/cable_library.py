@@ -3,7 +3,9 @@
 Each entry states its matched attenuation at three or more frequencies; the library fits
 a(f) = k_c sqrt(f) + k_d f to those points (`cables.cable_from_points`) and keeps the span of
 the points as the range where the data are valid. The geometry and materials in an entry are
-documentation and the input of ``cable_data/derive_attenuation.py``; they are not used here.
+documentation and the input of ``cable_data/derive_attenuation.py``; here they only split a
+coax's conductor heat between its inner and outer conductor for the thermal build
+(``thermal:``, `cable_heating.CableThermal`), from which its power rating follows.
 
 Units are read once, here, with `linecalc.io.units`; what leaves this module is SI floats.
 """
@@ -20,6 +22,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 import yaml
 
+from linecalc.physics.cable_heating import CableThermal, layer_thermal_resistance_k_m_per_w
 from linecalc.physics.cables import Cable, cable_from_points
 from linecalc.io.units import UnitError, parse_loss_db_per_m, parse_quantity
 from linecalc.errors import LinecalcError
@@ -114,6 +117,50 @@ def _value(entry: dict, key: str, where: str):
     return node["value"]
 
 
+def _thermal(entry: dict, kind: str, where: str) -> CableThermal | None:
+    """The thermal build of an entry (its ``thermal:`` mapping), or None where it has none.
+
+    Coax: ``insulation_thermal_resistivity`` [K m/W] of the dielectric, ``shield_diameter`` (over
+    the outer conductor), ``jacket_diameter`` and ``jacket_thermal_resistivity``; the inner's
+    share of the conductor heat is that of its skin-effect resistance, resistance factor over
+    diameter, against the outer's (`cables.coax_rlgc`). Balanced: each wire with a round
+    ``covering_diameter`` of ``insulation_thermal_resistivity`` (both left out for a bare wire).
+    Both: ``max_temperature``, a bare number in degrees Celsius.
+    """
+    node = entry.get("thermal")
+    if node is None:
+        return None
+    if not isinstance(node, dict):
+        raise LibraryError(f"{where}: thermal is a mapping of {{value: ..., source: ...}} entries")
+    max_temperature_c = float(_value(node, "max_temperature", where))
+    geometry = entry.get("geometry") or {}
+    if kind == "coax":
+        inner, dielectric, outer = (geometry.get(key) or {} for key in ("inner", "dielectric", "outer"))
+        inner_d = parse_quantity(_value(inner, "diameter", where), "m")
+        dielectric_d = parse_quantity(_value(dielectric, "diameter", where), "m")
+        shield_d = parse_quantity(_value(node, "shield_diameter", where), "m")
+        jacket_d = parse_quantity(_value(node, "jacket_diameter", where), "m")
+        if not 0 < inner_d < dielectric_d <= shield_d < jacket_d:
+            raise LibraryError(f"{where}: the diameters of the inner, dielectric, shield and jacket must grow outward")
+        inner_r = float(_value(inner, "resistance_factor", where)) / inner_d
+        outer_r = float(_value(outer, "resistance_factor", where)) / dielectric_d
+        insulation = layer_thermal_resistance_k_m_per_w(
+            parse_quantity(_value(node, "insulation_thermal_resistivity", where), "K*m/W"), inner_d, dielectric_d)
+        jacket = layer_thermal_resistance_k_m_per_w(
+            parse_quantity(_value(node, "jacket_thermal_resistivity", where), "K*m/W"), shield_d, jacket_d)
+        return CableThermal(float(insulation), float(jacket), jacket_d, inner_r / (inner_r + outer_r), 1,
+                            max_temperature_c)
+    wire_d = parse_quantity(_value(geometry.get("wires") or {}, "diameter", where), "m")
+    if "covering_diameter" not in node:
+        return CableThermal(0.0, 0.0, wire_d, 1.0, 2, max_temperature_c)
+    covering_d = parse_quantity(_value(node, "covering_diameter", where), "m")
+    if not covering_d > wire_d:
+        raise LibraryError(f"{where}: the covering diameter must exceed the wire's")
+    insulation = layer_thermal_resistance_k_m_per_w(
+        parse_quantity(_value(node, "insulation_thermal_resistivity", where), "K*m/W"), wire_d, covering_d)
+    return CableThermal(float(insulation), 0.0, covering_d, 1.0, 2, max_temperature_c)
+
+
 def _build(path: Traversable, entry: dict) -> Cable:
     where = f"{path.name} ({entry['id']})"
     kind = entry.get("kind")
@@ -129,6 +176,7 @@ def _build(path: Traversable, entry: dict) -> Cable:
             raise LibraryError(f"{where}: attenuation.points holds {MIN_POINTS} or more frequency: loss pairs")
         frequency_hz = np.array([parse_quantity(f, "Hz") for f in points])
         loss_db_per_m = np.array([parse_loss_db_per_m(loss) for loss in points.values()])
+        thermal = _thermal(entry, kind, where)
     except UnitError as exc:
         raise LibraryError(f"{where}: {exc}") from None
     if not (z0_ohm > 0 and 0 < velocity_factor <= 1):
@@ -136,7 +184,7 @@ def _build(path: Traversable, entry: dict) -> Cable:
     if not (np.all(frequency_hz > 0) and np.all(loss_db_per_m > 0)):
         raise LibraryError(f"{where}: attenuation points need positive frequencies and losses")
     return cable_from_points(entry["id"], str(entry.get("description", "")), kind, z0_ohm, velocity_factor,
-                             frequency_hz, loss_db_per_m, max_voltage_v)
+                             frequency_hz, loss_db_per_m, max_voltage_v, thermal)
 
 
 @functools.lru_cache(maxsize=1)

@@ -8,9 +8,11 @@ Defaults, all documented in the README where the key is:
   section that is its differential path (common practice: a coax-wound choke);
   ``min_common_mode`` 500 ohm, the common-mode impedance below which a band is flagged (common
   practice).
-- balun: ``loss`` 0.2 dB (common practice for a ferrite-core current balun at HF); ``length``
-  1 m and ``velocity_factor`` 0.7 of its winding (from memory); ``input: unbalanced``,
-  ``output: balanced``.
+- balun: ``type`` current; ``loss`` 0.2 dB (common practice for a ferrite-core current balun at
+  HF); ``length`` 1 m and ``velocity_factor`` 0.7 of its winding (from memory); ``input:
+  unbalanced``, ``output: balanced``. ``type: voltage``: ``inductance`` 20 uH (its magnetising
+  inductance: four times 50 ohm of reactance at 1.8 MHz, common practice) and ``core_q`` 20
+  (from memory) in place of ``length`` and ``velocity_factor``.
 - meter: ``impedance`` the radio's reference impedance.
 - series / shunt parts: ``inductor_q`` 100, ``capacitor_q`` 1000 (common practice), the
   resistor ideal.
@@ -32,8 +34,9 @@ import numpy as np
 from linecalc.physics.cables import (CONDUCTIVITY_S_PER_M, IACS_S_PER_M, STEEL_CORE_CONDUCTIVITY_S_PER_M,
                                      cable_from_points, cladding_thickness_m, coax_from_geometry,
                                      two_wire_from_geometry)
-from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner
-from linecalc.elements.parts import BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR
+from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner, VoltageBalun
+from linecalc.elements.parts import (BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR,
+                                     VOLTAGE_BALUN_CORE_Q, VOLTAGE_BALUN_INDUCTANCE_H)
 from linecalc.physics.matching import TunerParts
 from linecalc.io.yaml_schema import decibels, frequency_table, mapping, number, quantity, string
 from linecalc.io.units import UnitError, parse_impedance, parse_loss_db_per_m
@@ -48,6 +51,9 @@ CAPACITOR_Q = 1000.0
 # in one element, balun impedance ratio.
 LOSS_DB_PER_M = (1e-9, 1e3)
 Q_RANGE = (1.0, 1e6)
+# A voltage balun's magnetising inductance [H]: from 1 nH (a fraction of a turn) to 1 H (far past
+# any HF winding).
+BALUN_INDUCTANCE_RANGE_H = (1e-9, 1.0)
 MAX_CONNECTORS = 1000
 # Largest loss of one connector, choke or balun, and of a connector element's count together [dB]:
 # a part that loses more turns nearly all the power into heat and is no part of a feed path.
@@ -275,8 +281,29 @@ def _side(doc, ctx, key, default):
     return value == "balanced"
 
 
+def _voltage_balun(doc, ctx, index, z_ref_ohm):
+    """``type: voltage``: its magnetising inductance and core Q in place of a winding line."""
+    mapping(doc, ctx, required=("ratio", "type"), optional=("loss", "inductance", "core_q", "input", "output", "label"))
+    inductance = VOLTAGE_BALUN_INDUCTANCE_H
+    if "inductance" in doc:
+        inductance = quantity(doc, "inductance", ctx, "H")
+        low, high = BALUN_INDUCTANCE_RANGE_H
+        if not low <= inductance <= high:
+            raise ctx.child(doc, "inductance").error(f"a magnetising inductance from {low * 1e6:g} uH to "
+                                                     f"{high:g} H, got {doc['inductance']!r}")
+    return VoltageBalun(_label(doc, ctx, "balun", index), _ratio(doc, ctx), _loss(doc, ctx, BALUN_LOSS_DB), z_ref_ohm,
+                        _side(doc, ctx, "input", "unbalanced"), _side(doc, ctx, "output", "balanced"),
+                        inductance, _q(doc, ctx, "core_q", VOLTAGE_BALUN_CORE_Q))
+
+
 def _balun(doc, ctx, index, z_ref_ohm):
-    mapping(doc, ctx, required=("ratio",), optional=("loss", "length", "velocity_factor", "input", "output", "label"))
+    balun_type = doc.get("type", "current") if isinstance(doc, dict) else "current"
+    if balun_type not in ("current", "voltage"):
+        raise ctx.child(doc, "type").error(f"a balun's type is current or voltage, got {balun_type!r}")
+    if balun_type == "voltage":
+        return _voltage_balun(doc, ctx, index, z_ref_ohm)
+    mapping(doc, ctx, required=("ratio",),
+            optional=("type", "loss", "length", "velocity_factor", "input", "output", "label"))
     length, velocity_factor = _winding(doc, ctx, BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR)
     return Transformer(_label(doc, ctx, "balun", index), _ratio(doc, ctx), _loss(doc, ctx, BALUN_LOSS_DB), z_ref_ohm,
                        _side(doc, ctx, "input", "unbalanced"), _side(doc, ctx, "output", "balanced"),

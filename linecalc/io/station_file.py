@@ -74,12 +74,12 @@ def _gain_dbi(doc, ctx):
 
 def _touchstone(doc, ctx, file):
     """A Touchstone one-port sweep, its path relative to the station file."""
-    from linecalc.io.touchstone import TouchstoneError, read_one_port
+    from linecalc.io.touchstone import TouchstoneError, read_sweep
 
     name = string(doc, "touchstone", ctx)
     path = Path(file).parent / name
     try:
-        frequency_hz, z_ohm = read_one_port(path)
+        frequency_hz, z_ohm, notes = read_sweep(path)
     except TouchstoneError as exc:
         if exc.line is None:
             raise ctx.child(doc, "touchstone").error(str(exc)) from None
@@ -90,11 +90,12 @@ def _touchstone(doc, ctx, file):
         raise ctx.child(doc, "touchstone").error(
             f"the sweep {name} is an exact open (S = 1, or Y = 0) at {where} MHz: its impedance is infinite "
             "there, and a sweep is interpolated in impedance; leave those points out")
-    return ImpedanceTable(frequency_hz, z_ohm), ctx.child(doc, "touchstone"), f"the sweep {name}"
+    return ImpedanceTable(frequency_hz, z_ohm), ctx.child(doc, "touchstone"), f"the sweep {name}", notes
 
 
 def _antenna(doc, ctx, file, highest_frequency_hz):
-    """The antenna table, where its key sits, its gain, and where it was measured (None: at the feedpoint).
+    """The antenna table, where its key sits, its gain, where it was measured (None: at the
+    feedpoint), a description of its source, and the warnings of reading it (a sweep's).
 
     A wire antenna is the model itself, its gain None (it has one per row)."""
     mapping(doc, ctx, optional=("impedance", "swr", "touchstone", "wire", "measured_at", "gain"))
@@ -108,18 +109,18 @@ def _antenna(doc, ctx, file, highest_frequency_hz):
                 raise ctx.child(doc, key).error(f"a wire antenna takes no {key}: the model gives its gain and its "
                                                 "feedpoint")
         antenna = read_wire(doc["wire"], ctx.child(doc, "wire"), highest_frequency_hz)
-        return antenna, ctx.child(doc, "wire"), None, None, "the wire model"
+        return antenna, ctx.child(doc, "wire"), None, None, "the wire model", ()
     gain_dbi = _gain_dbi(doc, ctx)
     measured_at = string(doc, "measured_at", ctx) if "measured_at" in doc else None
     if "touchstone" in doc:
-        table, where, source = _touchstone(doc, ctx, file)
-        return table, where, gain_dbi, measured_at, source
+        table, where, source, notes = _touchstone(doc, ctx, file)
+        return table, where, gain_dbi, measured_at, source, notes
     if "impedance" in doc:
         f, z = frequency_table(doc["impedance"], ctx.child(doc, "impedance"), _read_impedance)
         return (ImpedanceTable(f, np.array(z, dtype=complex)), ctx.child(doc, "impedance"), gain_dbi, measured_at,
-                f"the impedance measured at {measured_at}")
+                f"the impedance measured at {measured_at}", ())
     f, swr = frequency_table(doc["swr"], ctx.child(doc, "swr"), _read_swr)
-    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr"), gain_dbi, measured_at, f"the reading at {measured_at}"
+    return SwrTable(f, np.array(swr)), ctx.child(doc, "swr"), gain_dbi, measured_at, f"the reading at {measured_at}", ()
 
 
 def _measuring_node(measured_at, feed, ctx):
@@ -251,7 +252,7 @@ def station_from_document(doc, file="<station>") -> Station:
                          else TRANSMIT_FRACTION)
     labels, frequency_hz, band_edges = _rows(doc, ctx)
     highest_hz = max([f for f in frequency_hz] + [edge[1] for edge in band_edges if edge is not None])
-    antenna, table_ctx, gain_dbi, measured_at, source = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file,
+    antenna, table_ctx, gain_dbi, measured_at, source, notes = _antenna(doc["antenna"], ctx.child(doc, "antenna"), file,
                                                                  highest_hz)
     outside = (np.zeros(frequency_hz.shape, bool) if isinstance(antenna, WireAntenna)
                else outside_table(antenna.frequency_hz, frequency_hz))
@@ -270,7 +271,7 @@ def station_from_document(doc, file="<station>") -> Station:
                       frequency_hz=frequency_hz, antenna=antenna, feed=feed, region=region, mode=mode,
                       duty_factor=duty, transmit_fraction=transmit_fraction, antenna_gain_dbi=gain_dbi,
                       radio_holds=holds, radio_foldback_swr=foldback_swr, radio_max_power_w=max_power_w,
-                      band_edges_hz=band_edges, compare=spec,
+                      band_edges_hz=band_edges, compare=spec, input_warnings=notes,
                       source_file=str(file),
                       key_lines={"antenna": ctx.child(doc, "antenna").line, "feed": ctx.child(doc, "feed").line,
                                  **({"compare": ctx.child(doc, "compare").line} if "compare" in doc else {})})

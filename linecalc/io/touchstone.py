@@ -10,6 +10,7 @@ from __future__ import annotations
 import io
 import re
 from pathlib import Path
+from typing import NamedTuple
 
 import numpy as np
 from linecalc.errors import InputError
@@ -70,6 +71,10 @@ def _scan(path: Path, text: str):
     `TouchstoneError` at the first line that is wrong: an empty file, a bad option line, a
     port count other than one, a row that is not three numbers, frequencies that do not
     increase, a 2.x file whose declared frequency count or [End] is missing.
+
+    A message names the line and the field, and never quotes the file's text: the name may lead
+    (by a symlink, or a path in a shared station file) to a file that is not a sweep at all, whose
+    first word may be a secret. Numbers it read are shown as numbers.
     """
     lines = text.split("\n")  # numbered as an editor numbers them (CR of CR-LF is stripped below)
     if lines[-1] == "":
@@ -104,32 +109,31 @@ def _scan(path: Path, text: str):
         if lower.startswith("["):
             keyword, _, value = lower.partition("]")
             if keyword == "[version" and value.split() not in (["2.0"], ["2.1"]):
-                raise TouchstoneError(path, number, f"[Version] {line.partition(']')[2].strip() or '(none)'}: linecalc reads "
-                                                    "Touchstone 1.x files and 2.0 or 2.1 files")
+                raise TouchstoneError(path, number, "[Version] is not 2.0 or 2.1: linecalc reads Touchstone 1.x files "
+                                                    "and 2.0 or 2.1 files")
             if keyword == "[reference" and value.strip():
                 _check_reference(path, number, value.split())
             if keyword == "[number of ports" and value.split() != ["1"]:
-                raise TouchstoneError(path, number, f"[Number of Ports] is {value.strip() or 'missing'}; "
+                raise TouchstoneError(path, number, f"[Number of Ports] is {'not 1' if value.strip() else 'missing'}; "
                                                     "a one-port file is needed")
             if keyword == "[number of frequencies":
                 try:
                     declared = int(value)
                 except ValueError:
-                    raise TouchstoneError(path, number, f"[Number of Frequencies] is not a whole number: "
-                                                        f"{value.strip()!r}") from None
+                    raise TouchstoneError(path, number, "[Number of Frequencies] is not a whole number") from None
             in_data = keyword == "[network data" or (in_data and keyword not in ("[noise data", "[end"))
             ended = ended or keyword == "[end"
             continue
         if not in_data:
             continue  # 2.x: values of a keyword, such as [Reference], before [Network Data]
         values = []
-        for token in line.split():
+        for field, token in enumerate(line.split(), start=1):
             try:
                 value = float(token)
             except ValueError:
-                raise TouchstoneError(path, number, f"not a number: {token!r}") from None
+                raise TouchstoneError(path, number, f"field {field} is not a number") from None
             if not np.isfinite(value):
-                raise TouchstoneError(path, number, f"not a finite number: {token!r}")
+                raise TouchstoneError(path, number, f"field {field} is not a finite number")
             values.append(value)
         if len(values) > 3:
             raise TouchstoneError(path, number, f"{len(values) - 1} values after the frequency where a one-port "
@@ -164,9 +168,9 @@ def _check_option_line(path, number, lower):
     """The option line ``# <unit> <parameter> <format> R <n>``, fields in this order, each optional."""
     tokens = lower[1:].split()
     expected = (("frequency unit", UNITS_HZ), ("parameter", PARAMETERS), ("format", FORMATS))
-    for token, (what, allowed) in zip(tokens, expected):
+    for field, (token, (what, allowed)) in enumerate(zip(tokens, expected), start=1):
         if token not in allowed:
-            raise TouchstoneError(path, number, f"option line: {token!r} is not a {what} "
+            raise TouchstoneError(path, number, f"option line: field {field} is not a {what} "
                                                 f"({', '.join(a.upper() for a in allowed)}) for a one-port file")
     rest = tokens[3:]
     if rest:
@@ -175,8 +179,8 @@ def _check_option_line(path, number, lower):
         except ValueError:
             resistance = None
         if resistance is None or not resistance > 0 or not np.isfinite(resistance):
-            raise TouchstoneError(path, number, "option line: the reference must be 'R' and one positive "
-                                                f"resistance, got {' '.join(rest)!r}")
+            raise TouchstoneError(path, number, "option line: after the format, the reference must be 'R' and one "
+                                                "positive resistance")
         if resistance > MAX_REFERENCE_OHM:
             raise TouchstoneError(path, number, f"option line: a reference of {resistance:g} ohm is beyond what "
                                                 f"linecalc handles (at most {MAX_REFERENCE_OHM:g} ohm)")
@@ -187,14 +191,46 @@ def _check_option_line(path, number, lower):
 
 def _check_reference(path, number, tokens):
     """A 2.x ``[Reference]`` line: one positive resistance [ohm] within `MAX_REFERENCE_OHM`."""
-    for token in tokens:
+    for field, token in enumerate(tokens, start=1):
         try:
             value = float(token)
         except ValueError:
-            raise TouchstoneError(path, number, f"[Reference]: not a number: {token!r}") from None
+            raise TouchstoneError(path, number, f"[Reference]: field {field} is not a number") from None
         if not 0 < value <= MAX_REFERENCE_OHM:
             raise TouchstoneError(path, number, f"[Reference]: a resistance above 0 and at most "
-                                                f"{MAX_REFERENCE_OHM:g} ohm, got {token!r}")
+                                                f"{MAX_REFERENCE_OHM:g} ohm, got {value:g}")
+
+
+class Sweep(NamedTuple):
+    """A one-port sweep as read: frequencies [Hz], impedances [ohm], and warnings about how the
+    file was read (text for people: a 1.x file without an option line)."""
+
+    frequency_hz: np.ndarray
+    z_ohm: np.ndarray
+    warnings: tuple[str, ...]
+
+
+def read_sweep(path) -> Sweep:
+    """`read_one_port`, with the warnings of the reading.
+
+    A 1.x file without an option line is read with the defaults the Touchstone specification
+    gives such a file, GHz, S, MA and R 50, and a warning names the file and says so: a sweep
+    written in MHz without its option line would otherwise be read a thousand times too high in
+    frequency without a word.
+
+    References
+    ----------
+    Touchstone File Format Specification, version 2.0 (IBIS Open Forum, 2009), the option line
+    and its defaults (from memory).
+    """
+    path = Path(path)
+    frequency_hz, z_ohm, option_line = _read(path)
+    warnings = ()
+    if option_line is None:
+        warnings = (f"{path}: no option line, so its data are read as the Touchstone specification's defaults: "
+                    "frequencies in GHz, S parameters as magnitude and angle, 50 ohm reference; if that is not "
+                    "what the file holds, add its option line (for example '# MHz S RI R 50')",)
+    return Sweep(frequency_hz, z_ohm, warnings)
 
 
 def read_one_port(path):
@@ -236,7 +272,13 @@ def read_one_port(path):
     Microwave Engineering, 4th ed., section 2.3 (Z from rho) and section 2.4 (normalised
     admittance y = Y Z0).
     """
-    path = Path(path)
+    frequency_hz, z_ohm, _ = _read(Path(path))
+    return frequency_hz, z_ohm
+
+
+def _read(path: Path):
+    """The body of `read_one_port`: frequencies, impedances and the option line's number (None
+    for a file without one)."""
     text = _read_text(path)
     option_line, rows = _scan(path, text)
     where = option_line or rows[0]
@@ -250,7 +292,8 @@ def read_one_port(path):
         text_file.name = str(path)
         parsed = Touchstone(text_file)
     except Exception as exc:  # noqa: BLE001 - whatever the parser raises is a bad file, named here
-        raise TouchstoneError(path, where, f"scikit-rf cannot read it: {exc}") from None
+        # the parser's own words may quote the file, which is not shown (see `_scan`)
+        raise TouchstoneError(path, where, f"scikit-rf cannot read it ({type(exc).__name__})") from None
     if parsed.rank != 1 or len(parsed.f) != len(rows):
         raise TouchstoneError(path, rows[0], f"read as {parsed.rank} port(s) and {len(parsed.f)} frequencies "
                                              f"where the text has one port and {len(rows)} rows")
@@ -269,7 +312,7 @@ def read_one_port(path):
     else:
         admittance = raw / resistance if version1 else raw
         z_ohm = _divide(np.ones_like(admittance), admittance)
-    return frequency_hz, z_ohm
+    return frequency_hz, z_ohm, option_line
 
 
 def _divide(numerator, denominator):

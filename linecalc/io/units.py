@@ -41,6 +41,7 @@ COMMON_UNITS = {
     "V": ("V", 1.0), "kV": ("V", 1e3), "A": ("A", 1.0), "mA": ("A", 1e-3),
     "pF": ("F", 1e-12), "nF": ("F", 1e-9), "uF": ("F", 1e-6),
     "nH": ("H", 1e-9), "uH": ("H", 1e-6), "mH": ("H", 1e-3),
+    "K*m/W": ("K*m/W", 1.0),  # thermal resistivity, in the cable library
 }
 
 DB_PER_NEPER = 20.0 / math.log(10.0)  # 8.686 dB per neper (amplitude)

@@ -10,6 +10,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from linecalc.physics.cable_heating import CableThermal, allowed_heat_w_per_m
+
 MU_0 = 4e-7 * np.pi  # H/m (the exact pre-2019 value; the 2019 SI value differs by 1e-10)
 EPSILON_0 = 8.8541878128e-12  # F/m, CODATA 2018
 SPEED_OF_LIGHT = 299_792_458.0  # m/s, exact
@@ -453,6 +455,7 @@ class Cable:
     max_voltage_v: float | None = None
     max_power_w: float | None = None  # matched average power rating, where the user knows one
     rlgc_model: str = "fit"
+    thermal: CableThermal | None = None  # the thermal build of a library cable, for its rating
     geometry: dict = field(default_factory=dict, compare=False, hash=False)
 
     def rlgc(self, frequency_hz) -> Rlgc:
@@ -473,16 +476,37 @@ class Cable:
         _, gamma = self.constants(frequency_hz)
         return 20 * np.log10(np.e) * gamma.real
 
+    def power_rating_w(self, frequency_hz):
+        """Matched average power rating [W] at ``frequency_hz`` [Hz], or None without one.
+
+        The user's ``max_power_w`` where given (the same at every frequency); otherwise, for a
+        cable with a thermal build, the power whose matched heat per metre, 2 Re(gamma) P (the
+        heat R'|I|^2 + G'|V|^2 of a matched line), is the heat that takes the hot conductor to
+        its insulation's limit (`cable_heating.allowed_heat_w_per_m`, at its dielectric share
+        G'|Z0|^2 / (R' + G'|Z0|^2)).
+        """
+        f = np.asarray(frequency_hz, dtype=float)
+        if self.max_power_w is not None:
+            return np.full(f.shape, float(self.max_power_w))
+        if self.thermal is None:
+            return None
+        rlgc = self.rlgc(f)
+        z0, gamma = line_constants(f, rlgc)
+        dielectric = rlgc.g_s_per_m * np.abs(z0) ** 2
+        share = dielectric / (rlgc.r_ohm_per_m + dielectric)
+        return allowed_heat_w_per_m(self.thermal, share) / (2 * gamma.real)
+
 
 def cable_from_points(id, description, kind, z0_nominal_ohm, velocity_factor, frequency_hz,
-                      loss_db_per_m, max_voltage_v=None) -> Cable:
-    """Build a fitted `Cable` from matched-loss points [Hz], [dB/m]."""
+                      loss_db_per_m, max_voltage_v=None, thermal=None) -> Cable:
+    """Build a fitted `Cable` from matched-loss points [Hz], [dB/m] (``thermal``: its
+    `CableThermal` build, for a power rating, or None)."""
     np_per_m = np.asarray(loss_db_per_m, dtype=float) / (20 * np.log10(np.e))
     k_c, k_d = fit_attenuation(frequency_hz, np_per_m)
     f = np.asarray(frequency_hz, dtype=float)
     return Cable(id=id, description=description, kind=kind, z0_nominal_ohm=z0_nominal_ohm,
                  velocity_factor=velocity_factor, k_conductor=k_c, k_dielectric=k_d,
-                 data_range_hz=(float(f.min()), float(f.max())), max_voltage_v=max_voltage_v)
+                 data_range_hz=(float(f.min()), float(f.max())), max_voltage_v=max_voltage_v, thermal=thermal)
 
 
 def coax_from_geometry(id, description, inner_diameter_m, dielectric_diameter_m, relative_permittivity,

@@ -1,5 +1,6 @@
-"""Physical models of the small parts of a feed path: a connector's series resistance, and the
-short line section that is the differential path of a choke or the winding of a current balun.
+"""Physical models of the small parts of a feed path: a connector's series resistance, the short
+line section that is the differential path of a choke or the winding of a current balun, and the
+winding resistance and finite-Q magnetising inductance of a voltage balun.
 
 Each model is set by one number, the part's matched loss at the reference impedance (the `loss`
 key of the station file), and by a stated length and velocity factor for the line section. The
@@ -14,8 +15,9 @@ from __future__ import annotations
 import numpy as np
 
 from linecalc.physics.cables import SPEED_OF_LIGHT, Rlgc, line_constants
-from linecalc.physics.lumped import series_abcd
-from linecalc.physics.twoports import line_abcd, terminated_loss_db
+from linecalc.physics.cascade import cascade_abcd
+from linecalc.physics.lumped import series_abcd, shunt_abcd
+from linecalc.physics.twoports import line_abcd, terminated_loss_db, transformer_abcd
 
 
 def series_resistance_for_loss_ohm(loss_db, z_ref_ohm):
@@ -203,3 +205,95 @@ def winding_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, loss_d
         return np.stack([np.stack([one, zero], -1), np.stack([zero, one], -1)], -2)
     r = winding_resistance_ohm_per_m(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, loss_db)
     return _section_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, r)
+
+
+def magnetizing_impedance_ohm(frequency_hz, inductance_h, core_q):
+    """Impedance of a voltage balun's magnetising branch, a finite-Q inductance:
+    Z_m = omega L_m (1/Q + j) [ohm] (its core loss as a resistance omega L_m / Q in series).
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 6.1 (Q = omega L / R of a series RL branch).
+    """
+    reactance = 2 * np.pi * np.asarray(frequency_hz, dtype=float) * inductance_h
+    return reactance * (1 / core_q + 1j)
+
+
+def voltage_balun_winding_ohm(frequency_hz, loss_db, z_ref_ohm, inductance_h, core_q):
+    """The winding resistance of a voltage balun that, with its core, loses ``loss_db`` matched.
+
+    Parameters
+    ----------
+    frequency_hz : ndarray, shape (nf,)
+        Frequency [Hz], positive.
+    loss_db : float
+        Matched loss between terminations of the reference impedance (the output's is the ratio
+        times it) [dB], zero or more.
+    z_ref_ohm : float
+        Reference impedance, real [ohm].
+    inductance_h : float
+        Magnetising inductance, referred to the input [H], positive.
+    core_q : float
+        Q of the magnetising inductance [1], positive.
+
+    Returns
+    -------
+    tuple of ndarray, shape (nf,)
+        R_w [ohm], referred to the input, and the matched loss of the core alone [dB]. Where the
+        core alone loses more than ``loss_db`` R_w is 0 (the part then loses its core loss).
+
+    Notes
+    -----
+    Referred to the input, the ideal transformer's load is Z_ref, in parallel with Z_m: the node
+    after the winding has Z_n = 1 / (1/Z_m + 1/Z_ref). A current I through the winding puts
+    |I|^2 (R_w + Re Z_n) into the part and |I Z_n|^2 / Z_ref into the load, so the loss ratio
+    10^(L/10) = (R_w + Re Z_n) Z_ref / |Z_n|^2, solved for R_w in closed form; with R_w = 0 it is
+    the core's own loss.
+
+    References
+    ----------
+    The equivalent circuit of a real transformer (winding resistance in series, a magnetising
+    branch across the ideal transformer; leakage inductance left out): Chapman, Electric Machinery
+    Fundamentals, 4th ed., section 2.5 (from memory); Pozar, Microwave Engineering, 4th ed.,
+    section 4.4 (power at a port).
+    """
+    z_m = magnetizing_impedance_ohm(frequency_hz, inductance_h, core_q)
+    z_node = 1 / (1 / z_m + 1 / z_ref_ohm)
+    core_ratio = z_node.real * z_ref_ohm / np.abs(z_node) ** 2
+    winding = 10 ** (loss_db / 10) * np.abs(z_node) ** 2 / z_ref_ohm - z_node.real
+    return np.maximum(winding, 0.0), 10 * np.log10(core_ratio)
+
+
+def voltage_balun_abcd(frequency_hz, loss_db, z_ref_ohm, impedance_ratio, inductance_h, core_q):
+    """Chain matrix (nf, 2, 2) of a voltage (transformer) balun: winding resistance in series,
+    the finite-Q magnetising inductance across, then an ideal transformer of ``impedance_ratio``.
+
+    Parameters
+    ----------
+    frequency_hz, loss_db, z_ref_ohm, inductance_h, core_q
+        As for `voltage_balun_winding_ohm`.
+    impedance_ratio : float
+        Output over input impedance (4 for a 4:1 balun) [1].
+
+    Returns
+    -------
+    ndarray, shape (nf, 2, 2)
+        series(R_w) . shunt(1/Z_m) . transformer(n).
+
+    Notes
+    -----
+    The winding's current heats R_w, so it runs hot at a low-impedance point; the voltage across
+    the core drives its loss |V|^2 Re(1/Z_m), so it runs hot at a high-impedance point, where a
+    current balun stays cool. L_m and Q are held the same at every frequency (a ferrite's
+    permeability and Q change with frequency and flux), and R_w is solved at each frequency so
+    that the `loss` key is met wherever the core allows it (a real winding's resistance grows
+    about as sqrt(f)).
+
+    References
+    ----------
+    As `voltage_balun_winding_ohm`; Pozar, Microwave Engineering, 4th ed., section 4.4, Table 4.1
+    (series, shunt and ideal-transformer chain matrices).
+    """
+    winding, _ = voltage_balun_winding_ohm(frequency_hz, loss_db, z_ref_ohm, inductance_h, core_q)
+    z_m = magnetizing_impedance_ohm(frequency_hz, inductance_h, core_q)
+    return cascade_abcd([series_abcd(winding + 0j), shunt_abcd(1 / z_m), transformer_abcd(impedance_ratio, frequency_hz)])

@@ -179,14 +179,15 @@ def _window_phasors(z0_ohm, gamma_per_m, ends, length_m, distance_m):
     return np.concatenate(np.broadcast_arrays(v_a, v_r), axis=-3), np.concatenate(np.broadcast_arrays(i_a, i_r), axis=-3)
 
 
-def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, ends, use_voltage):
+def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, ends, measure):
     """Largest of ``magnitude`` (..., 2 WINDOW_SAMPLES, nf) sampled at ``distance``, and where.
 
     In each window, a parabola through its largest interior sample and the two beside it (in
     magnitude squared) locates a maximum between samples: one inside the window always raises
     the largest interior sample or one next to it. Where the vertex lies on the line, the exact
     phasors are evaluated there. The answer is the largest of every sample and the refined
-    points, so it is always a true value on the line.
+    points, so it is always a true value on the line. ``measure(v, i)`` is the magnitude that
+    was sampled, from the phasors (|V|, |I| or the square root of the heat per metre).
     """
     shape = magnitude.shape[:-2] + (2, WINDOW_SAMPLES, magnitude.shape[-1])
     windows = magnitude.reshape(shape)
@@ -204,7 +205,7 @@ def _refined_maximum(magnitude, distance, length_m, z0_ohm, gamma_per_m, ends, u
     d = d_centre + np.where(np.abs(offset) <= 1, offset, 0.0) * (d_right - d_left) / 2  # (..., 2, nf)
     v, i = (x[..., 0, :] for x in _window_phasors(z0_ohm, gamma_per_m, ends, length_m, d[..., None, :]))
     length = np.asarray(length_m, dtype=float)[..., None, None]
-    refined = np.where((d >= 0) & (d <= length), np.abs(v if use_voltage else i), -np.inf)
+    refined = np.where((d >= 0) & (d <= length), measure(v, i), -np.inf)
     candidates = np.concatenate([magnitude, refined], axis=-2)
     where = np.concatenate([np.broadcast_to(distance, magnitude.shape), np.broadcast_to(d, refined.shape)], axis=-2)
     best = np.argmax(candidates, axis=-2)[..., None, :]
@@ -263,9 +264,64 @@ def line_extremes(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a, v
     v, i = (x.reshape(x.shape[:-3] + (2 * WINDOW_SAMPLES, x.shape[-1]))
             for x in _window_phasors(z0_ohm, gamma_per_m, ends, length_m, windowed))
     length = np.asarray(length_m, dtype=float)[..., None]
-    v_max, v_d = _refined_maximum(np.abs(v), distance, length_m, z0_ohm, gamma_per_m, ends, True)
-    i_max, i_d = _refined_maximum(np.abs(i), distance, length_m, z0_ohm, gamma_per_m, ends, False)
+    v_max, v_d = _refined_maximum(np.abs(v), distance, length_m, z0_ohm, gamma_per_m, ends, lambda v, i: np.abs(v))
+    i_max, i_d = _refined_maximum(np.abs(i), distance, length_m, z0_ohm, gamma_per_m, ends, lambda v, i: np.abs(i))
     return LineExtremes(v_max, PEAK_PER_RMS * v_max, length - v_d, i_max, PEAK_PER_RMS * i_max, length - i_d)
+
+
+class HeatMaximum(NamedTuple):
+    """The largest heat per metre on a line [W/m] and where it is [m from the radio end]."""
+
+    heat_w_per_m: np.ndarray
+    position_m: np.ndarray
+
+
+def line_heat_maximum(z0_ohm, gamma_per_m, r_ohm_per_m, g_s_per_m, length_m, voltage_out_v, current_out_a,
+                      voltage_in_v, current_in_a) -> HeatMaximum:
+    """The largest heat per metre along a line, R'|I|^2 + G'|V|^2, and where it occurs.
+
+    Parameters
+    ----------
+    z0_ohm, gamma_per_m : array_like of complex, (nf,)
+        Characteristic impedance [ohm] and propagation constant [1/m].
+    r_ohm_per_m, g_s_per_m : array_like, (nf,)
+        Series resistance [ohm/m] and shunt conductance [S/m] of the cable.
+    length_m, voltage_out_v, current_out_a, voltage_in_v, current_in_a
+        As for `line_extremes` (RMS phasors at both ends).
+
+    Returns
+    -------
+    HeatMaximum
+        Shapes (..., nf): heat [W/m] at the phasors' power (at PEP when solved at PEP; scale by
+        the average fraction for heating) and its position [m] from the radio end.
+
+    Notes
+    -----
+    Conductor heat is R'|I|^2 and dielectric heat G'|V|^2 per metre (on a matched line their sum
+    is 2 Re(gamma) P). Both |V|^2 and |I|^2 are a convex function of the position plus one of
+    period pi/beta (see `line_extremes`), and so is any sum of them with positive weights: the
+    largest heat lies within half a wavelength of an end, and is found there as the voltage and
+    current maxima are.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.7 (power loss on a lossy line: R'|I|^2 and
+    G'|V|^2 per unit length).
+    """
+    gamma_per_m = np.asarray(gamma_per_m, dtype=complex)
+    r, g = np.asarray(r_ohm_per_m, dtype=float), np.asarray(g_s_per_m, dtype=float)
+    distance = _end_windows(gamma_per_m, length_m)
+    ends = ((np.asarray(voltage_out_v, dtype=complex), np.asarray(current_out_a, dtype=complex)),
+            (np.asarray(voltage_in_v, dtype=complex), np.asarray(current_in_a, dtype=complex)))
+    windowed = distance.reshape(distance.shape[:-2] + (2, WINDOW_SAMPLES, distance.shape[-1]))
+    v, i = (x.reshape(x.shape[:-3] + (2 * WINDOW_SAMPLES, x.shape[-1]))
+            for x in _window_phasors(z0_ohm, gamma_per_m, ends, length_m, windowed))
+
+    def root_heat(v, i):
+        return np.sqrt(r * np.abs(i) ** 2 + g * np.abs(v) ** 2)
+
+    peak, d = _refined_maximum(root_heat(v, i), distance, length_m, z0_ohm, gamma_per_m, ends, root_heat)
+    return HeatMaximum(peak ** 2, np.asarray(length_m, dtype=float)[..., None] - d)
 
 
 def line_extremes_in_path(solution, index, line, frequency_hz) -> LineExtremes:
@@ -286,6 +342,15 @@ def line_extremes_in_path(solution, index, line, frequency_hz) -> LineExtremes:
     return line_extremes(z0, gamma, line.length_m, solution.voltage_v[..., index + 1, :],
                          solution.current_a[..., index + 1, :], solution.voltage_v[..., index, :],
                          solution.current_a[..., index, :])
+
+
+def line_heat_in_path(solution, index, line, frequency_hz) -> HeatMaximum:
+    """`line_heat_maximum` of element ``index`` of a solved path, a line (as `line_extremes_in_path`)."""
+    rlgc = line.cable.rlgc(frequency_hz)
+    z0, gamma = line.cable.constants(frequency_hz)
+    return line_heat_maximum(z0, gamma, rlgc.r_ohm_per_m, rlgc.g_s_per_m, line.length_m,
+                             solution.voltage_v[..., index + 1, :], solution.current_a[..., index + 1, :],
+                             solution.voltage_v[..., index, :], solution.current_a[..., index, :])
 
 
 def swr_derated_power_rating_w(matched_rating_w, swr):
@@ -371,8 +436,8 @@ def line_rating_margins(extremes, z0_ohm, max_voltage_rms_v=None, matched_power_
     max_voltage_rms_v : float, optional
         Voltage rating, RMS [V] (``cables.Cable.max_voltage_v``); None for none.
     matched_power_rating_w : float, optional
-        Matched average power rating [W] at these frequencies; None for none (the library has
-        none: it depends on frequency, ambient temperature and the user's cable).
+        Matched average power rating [W] at these frequencies; None for none
+        (``cables.Cable.power_rating_w``).
     average_fraction : float
         Average power over PEP, duty factor times transmit fraction (``exposure``), in (0, 1];
         1 for key-down [1].

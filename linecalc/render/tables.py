@@ -9,6 +9,7 @@ from tabulate import tabulate
 
 from linecalc.studies.budget import BudgetResult
 from linecalc.studies import number_text
+from linecalc.physics.cable_heating import AMBIENT_C
 from linecalc.physics.exposure import CAUTIONS
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
@@ -145,13 +146,17 @@ def safety_table(result: BudgetResult) -> str:
             body = [[label, f"{r['voltage_max_rms_v'][i]:.0f}", f"{r['voltage_max_peak_v'][i]:.0f}",
                      f"{r['voltage_max_at_m'][i]:.1f}", f"{r['current_max_rms_a'][i]:.2f}", f"{r['current_max_at_m'][i]:.1f}",
                      f"{r['voltage_margin'][i]:.1f}" if "voltage_margin" in r else "no rating",
-                     f"{r['power_margin'][i]:.1f}" if "power_margin" in r else "no rating"]
+                     f"{r['power_margin'][i]:.1f}" if "power_margin" in r else "no rating",
+                     f"{r['heat_max_w_per_m'][i]:.2f} / "
+                     + (f"{r['heat_rating_w_per_m'][i]:.2f}" if "heat_rating_w_per_m" in r else "no rating")]
                     for i, label in enumerate(result.labels)]
             lines += [f"Line {e.label} at PEP (positions from its radio end; margins are rating / stress, below 1 "
                       "is over the rating):",
                       tabulate(body, headers=["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m",
-                                              "voltage margin", "power margin"], disable_numparse=True,
-                               stralign="right"), ""]
+                                              "voltage margin", "power margin", "hottest W/m avg / rated"],
+                               disable_numparse=True, stralign="right"),
+                      "hottest W/m: heat per metre at the line's hottest point at average power / what its rating "
+                      f"allows there (a library rating is for the cable alone in still air at {AMBIENT_C:g} degC)", ""]
         elif e.kind == "tuner":
             parts = sorted({key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings if key.endswith("_voltage_peak_v")})
             body = [[label] + [f"{e.readings[p + '_voltage_peak_v'][i]:.0f} V / {e.readings[p + '_current_rms_a'][i]:.2f} A"
@@ -191,7 +196,21 @@ def cables_table(listing) -> str:
                      cable.description])
     return ("Matched loss in dB per 100 m / per 100 ft\n\n"
             + tabulate(body, headers=headers, disable_numparse=True)
-            + "\n\n* outside the cable's data: extrapolated by its loss model\n")
+            + "\n\n* outside the cable's data: extrapolated by its loss model\n\n" + _cable_ratings_table(listing))
+
+
+def _cable_ratings_table(listing) -> str:
+    """The ratings of the listing's cables: matched average power at each frequency, voltage."""
+    headers = ["id"] + [f"{f / 1e6:g} MHz" for f in listing.frequency_hz] + ["V RMS"]
+    body = []
+    for cable, power_w in zip(listing.cables, listing.power_rating_w):
+        cells = ["none" if not np.isfinite(p) else f"{p:.0f}" for p in power_w]
+        body.append([cable.id, *cells, "none" if cable.max_voltage_v is None else f"{cable.max_voltage_v:.0f}"])
+    return (f"Ratings: matched average power in W (the cable alone in still air at {AMBIENT_C:g} degC, from a thermal model; "
+            "divide by the SWR on the line), and voltage\n\n"
+            + tabulate(body, headers=headers, disable_numparse=True, stralign="right")
+            + "\n\nA balanced line's voltage is limited by its spreaders or web, by wet weather and by what is near "
+            "it long before its heating: 'none' is not unlimited.\n")
 
 
 def compare_table(comparison) -> str:

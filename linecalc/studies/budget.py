@@ -411,7 +411,7 @@ def solve_budget(station: Station) -> BudgetResult:
         radio_forward_w=forward_w, radio_reflected_w=reflected_w,
         radio_mismatch_loss_db=port_mismatch_loss_db(held_w, _phase_mean(drive.net_w, swr_only)),
         radio_holds=station.radio_holds,
-        warnings=tuple(_radio_warnings(station, drive, swr_radio, swr_only)
+        warnings=tuple(list(station.input_warnings) + _radio_warnings(station, drive, swr_radio, swr_only)
                        + _range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
                        + _tuner_warnings(station.feed, designs, station.labels, swr_in, station.tuner_set_at)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings

@@ -65,6 +65,9 @@ class Station:
     source_file: str = "<station>"
     key_lines: dict = field(default_factory=dict, compare=False)  # key path -> line in the source file
     compare: CompareSpec | None = field(default=None, compare=False)
+    # warnings of reading the station's inputs (a Touchstone sweep without an option line), text
+    # for people; every solved result repeats them in its warnings
+    input_warnings: tuple = field(default=(), compare=False)
 
 
 class BudgetError(InputError):

@@ -8,8 +8,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from linecalc.physics.cable_heating import AMBIENT_C
 from linecalc.physics.exposure import PLAUSIBLE_GAIN_DBI, average_power_w, exposure_distances
-from linecalc.physics.voltage import PEAK_PER_RMS, line_extremes_in_path, line_rating_margins, tuner_part_stress
+from linecalc.physics.voltage import PEAK_PER_RMS, line_extremes_in_path, line_heat_in_path, tuner_part_stress
 
 # The span of the exposure limit tables [Hz] (47 CFR 1.1310 Table 1 starts at 0.3 MHz).
 EXPOSURE_SPAN_HZ = (0.3e6, 100e9)
@@ -43,17 +44,19 @@ def line_stress(solution, index, line, frequency_hz, labels, swr_only, average_f
         "current_max_at_m": position_i,
     }
     warnings = []
-    if line.cable.max_power_w is not None:
-        z0, _ = line.cable.constants(frequency_hz)
-        check = line_rating_margins(extremes, z0, matched_power_rating_w=line.cable.max_power_w,
-                                    average_fraction=average_fraction)
-        readings["heating_power_w"] = _worst(check.heating_power_w, swr_only)
-        readings["power_margin"] = line.cable.max_power_w / readings["heating_power_w"]
-        over = [f"{label} (heats as {h:.0f} W matched)" for label, h, m in
-                zip(labels, readings["heating_power_w"], readings["power_margin"]) if m < 1]
+    rating_w = line.cable.power_rating_w(frequency_hz)
+    readings.update(_heat_readings(solution, index, line, frequency_hz, swr_only, average_fraction, rating_w))
+    if rating_w is not None:
+        over = [f"{label} ({h:.1f} W/m at {x:.1f} m, rated {r:.1f} W/m)" for label, h, x, r, m in
+                zip(labels, readings["heat_max_w_per_m"], readings["heat_max_at_m"],
+                    readings["heat_rating_w_per_m"], readings["power_margin"]) if m < 1]
         if over:
-            warnings.append(f"line {line.label}: its current maxima run hotter than its {line.cable.max_power_w:.0f} W "
-                            f"rating allows on {', '.join(over)}: the rating divided by the SWR is exceeded")
+            source = ("its max_power" if line.cable.max_power_w is not None else
+                      f"its heating limit ({line.cable.thermal.max_temperature_c:g} degC inside at "
+                      f"{AMBIENT_C:g} degC still air)")
+            warnings.append(f"line {line.label}: its hottest point takes more heat per metre at average power than "
+                            f"{source} allows on {', '.join(over)}: the matched power rating divided by the SWR "
+                            "is exceeded, and the cable can soften and fail")
     rating = line.cable.max_voltage_v
     if rating is not None:
         readings["voltage_margin"] = rating / readings["voltage_max_rms_v"]
@@ -63,6 +66,33 @@ def line_stress(solution, index, line, frequency_hz, labels, swr_only, average_f
             warnings.append(f"line {line.label}: the voltage exceeds the cable's rating of {rating:.0f} V RMS on "
                             f"{', '.join(over)} at peak envelope power")
     return readings, warnings
+
+
+def _heat_readings(solution, index, line, frequency_hz, swr_only, average_fraction, rating_w):
+    """The heat per metre at the line's hottest point at average power, and, where the cable has
+    a power rating (``rating_w`` [W] per row, or None), the heat its rating allows there.
+
+    The allowed heat per metre is the matched rating's heat, 2 Re(gamma) P_rating: a hot spot of
+    a standing wave that takes SWR times the matched heat reaches it at the rating over the SWR.
+    """
+    hot = line_heat_in_path(solution, index, line, frequency_hz)
+    heat = hot.heat_w_per_m * average_fraction
+    if swr_only:
+        worst = np.argmax(heat, axis=0)
+        position = hot.position_m[worst, np.arange(frequency_hz.size)]
+        heat = np.max(heat, axis=0)
+    else:
+        position = hot.position_m
+    readings = {"heat_max_w_per_m": heat, "heat_max_at_m": position}
+    if rating_w is None:
+        return readings
+    _, gamma = line.cable.constants(frequency_hz)
+    matched_heat_per_w = 2 * gamma.real  # heat per metre per watt on a matched line [1/m]
+    heat_rating = rating_w * matched_heat_per_w
+    # a line that carries no current (beyond a short) heats not at all: its margin is unbounded
+    margin = np.divide(heat_rating, heat, out=np.full(heat.shape, np.inf), where=heat > 0)
+    return {**readings, "heat_rating_w_per_m": heat_rating, "power_rating_w": rating_w,
+            "heating_power_w": heat / matched_heat_per_w, "power_margin": margin}
 
 
 def tuner_stress(design, voltage_in_v, current_in_a, tuner, labels, swr_only):

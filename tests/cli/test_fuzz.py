@@ -192,7 +192,13 @@ def feed_element(draw, frequencies_hz):
         ratio = st.one_of(st.sampled_from(["1:1", "4:1", "1:4", "9:1", "49:1", 4, 1.5]),
                           st.floats(0.05, 50).map(lambda r: round(r, 3)))
         side = st.sampled_from(["balanced", "unbalanced"])
-        settings_ = optional_keys(draw, {"ratio": ratio}, {"loss": loss_db, "input": side, "output": side, **label})
+        keys = {"loss": loss_db, "input": side, "output": side, **label}
+        if draw(st.booleans()):  # a voltage balun: its core in place of a winding line
+            settings_ = optional_keys(draw, {"ratio": ratio, "type": st.just("voltage")},
+                                      {**keys, "inductance": quantity(1e-7, 1e-3, INDUCTANCE),
+                                       "core_q": st.floats(1, 1000).map(lambda q: round(q, 2))})
+        else:
+            settings_ = optional_keys(draw, {"ratio": ratio}, keys)
     elif kind == "meter":
         settings_ = optional_keys(draw, {}, {"impedance": resistance(10, 600), **label})
     elif kind in ("series", "shunt"):

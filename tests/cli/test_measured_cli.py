@@ -598,7 +598,7 @@ def test_bad_touchstone_through_the_entry_point_has_no_traceback(tmp_path, write
                                               "antenna: {touchstone: sweep.s1p}\nfeed: []\n")
     result = linecalc_command("budget", station)
     assert result.returncode == 2 and result.stdout == ""
-    assert result.stderr.strip() == f"{tmp_path / 'sweep.s1p'}:3: not a number: 'zero'"
+    assert result.stderr.strip() == f"{tmp_path / 'sweep.s1p'}:3: field 2 is not a number"
 
 
 def test_band_outside_the_measured_span_exits_2(cli, write_file, one_error_line):

@@ -124,7 +124,7 @@ BAD_FILES = {
     "comments_only": ("a.s1p", "! nothing here\n!\n", 1, "empty"),
     "no_data_rows": ("a.s1p", "! header\n# MHz S RI R 50\n", 2, "no data"),
     "truncated_row": ("a.s1p", "# MHz S RI R 50\n7.0 0.1 0.2\n7.1 0.1\n", 3, "truncated"),
-    "non_numeric": ("a.s1p", "# MHz S RI R 50\n7.0 0.1 0.2\n7.1 0.1 O.2\n", 3, "not a number: 'O.2'"),
+    "non_numeric": ("a.s1p", "# MHz S RI R 50\n7.0 0.1 0.2\n7.1 0.1 O.2\n", 3, "field 3 is not a number"),
     "not_finite": ("a.s1p", "# MHz S RI R 50\n7.0 0.1 nan\n", 2, "not a finite number"),
     "two_port_rows_in_s1p": ("a.s1p", "# MHz S RI R 50\n! two-port data\n7.0 0.1 0 0.9 0 0.9 0 0.1 0\n", 3,
                              "8 values after the frequency"),
@@ -139,7 +139,7 @@ BAD_FILES = {
                                              "[End]\n"), 7, "3 but the file has 2"),
     "v2_without_end": ("a.ts", ("[Version] 2.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Network Data]\n"
                                 "7.0 0.1 0\n7.1 0.1 0\n"), 6, "no [End]"),
-    "g_parameters": ("a.s1p", "! header\n# MHz G RI R 50\n7.0 0.1 0\n", 2, "'g' is not a parameter"),
+    "g_parameters": ("a.s1p", "! header\n# MHz G RI R 50\n7.0 0.1 0\n", 2, "field 2 is not a parameter"),
     "bad_unit": ("a.s1p", "# MHZZ S RI R 50\n7.0 0.1 0\n", 1, "not a frequency unit"),
     "negative_reference": ("a.s1p", "# MHz S RI R -50\n7.0 0.1 0\n", 1, "one positive resistance"),
     "unknown_name_without_version": ("a.txt", "# MHz S RI R 50\n7.0 0.1 0\n", 1, "not a Touchstone one-port"),
@@ -148,14 +148,14 @@ BAD_FILES = {
     "frequency_beyond_1_thz_in_ghz": ("a.s1p", "# GHz S RI R 50\n1001 0.1 0\n", 2, "at most 1e+12 Hz"),
     "reference_1e300": ("a.s1p", "# MHz S RI R 1e300\n7.0 0.1 0\n", 1, "at most 1e+09 ohm"),
     "v2_reference_not_a_number": ("a.ts", ("[Version] 2.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Reference] abc\n"
-                                           "[Network Data]\n7.0 0.1 0\n[End]\n"), 4, "[Reference]: not a number"),
+                                           "[Network Data]\n7.0 0.1 0\n[End]\n"), 4, "[Reference]: field 1 is not a number"),
     "v2_reference_1e300": ("a.ts", ("[Version] 2.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Reference] 1e300\n"
                                     "[Network Data]\n7.0 0.1 0\n[End]\n"), 4, "at most 1e+09 ohm"),
     "option_line_after_data": ("a.s1p", "7.0 0.1 0\n# MHz S RI R 50\n7.1 0.1 0\n", 2, "an option line after the data"),
     "negative_ma_magnitude": ("a.s1p", "# MHz S MA R 50\n7.0 -0.5 30\n", 2, "magnitude (MA format) is 0 or more"),
     "negative_magnitude_default_format": ("a.s1p", "# MHz S\n7.0 -0.5 30\n", 2, "magnitude (MA format)"),
     "version_3": ("a.ts", "[Version] 3.0\n# MHz S RI R 50\n[Number of Ports] 1\n[Network Data]\n7.0 0.1 0\n[End]\n",
-                  1, "[Version] 3.0: linecalc reads Touchstone 1.x files and 2.0 or 2.1 files"),
+                  1, "[Version] is not 2.0 or 2.1: linecalc reads Touchstone 1.x files and 2.0 or 2.1 files"),
 }
 
 

@@ -208,7 +208,7 @@ def test_safety_table_line_stress_with_units_and_margins(tuner_result, data_path
     assert "Line coax at PEP" in text
     headers, rows = parse_table(text, "V max RMS")
     assert headers == ["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m", "voltage margin",
-                       "power margin"]
+                       "power margin", "hottest W/m avg / rated"]
     line = tuner_result.elements[1].readings
     assert [row[0] for row in rows] == list(tuner_result.labels)
     for i, row in enumerate(rows):
@@ -216,11 +216,16 @@ def test_safety_table_line_stress_with_units_and_margins(tuner_result, data_path
         # the peak of a sine is sqrt(2) times its RMS value (crest factor; docs/json.md, units)
         assert abs(float(row[2]) - math.sqrt(2) * float(row[1])) <= 0.5 + 0.5 * math.sqrt(2)
         assert 0 <= float(row[3]) <= 30.0 and 0 <= float(row[5]) <= 30.0  # along the 30 m line
-        assert row[6] == row[7] == "no rating"  # the library's rg-8x states no ratings
+        assert row[6] == "no rating"  # the library's rg-8x states no voltage rating
+        # it has a power rating from its thermal build (cable_data): margin and heat as in the readings
+        assert shown(row[7], line["power_margin"][i], 1)
+        heat, rated_heat = row[8].split(" / ")
+        assert shown(heat, line["heat_max_w_per_m"][i], 2) and shown(rated_heat, line["heat_rating_w_per_m"][i], 2)
     rated = linecalc.solve_safety(linecalc.load_station(data_path("shack-sweep-dipole.yaml")))
     _, rows = parse_table(tables.safety_table(rated), "V max RMS")
-    for i, row in enumerate(rows):  # rg-213 has a voltage rating (cable_data), no power rating
-        assert shown(row[6], rated.elements[0].readings["voltage_margin"][i], 1) and row[7] == "no rating"
+    for i, row in enumerate(rows):  # rg-213 has a voltage rating and a power rating (cable_data)
+        readings = rated.elements[0].readings
+        assert shown(row[6], readings["voltage_margin"][i], 1) and shown(row[7], readings["power_margin"][i], 1)
 
 
 def test_safety_table_tuner_parts_in_volts_and_amperes(tuner_result):
