@@ -14,7 +14,7 @@ from linecalc.io import cable_library, station_file
 from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
 from linecalc.studies import antenna_report, budget, length_advice, measured
 from linecalc.studies import compare as compare_study
-from linecalc.studies import figure_data, work_size
+from linecalc.studies import figure_data, line_report, work_size
 from linecalc.studies.band_sweep import solve_band_sweeps
 from linecalc.studies.cable_listing import LISTING_FREQUENCIES_HZ, CableListing, cable_listing
 from linecalc.studies.station import CompareSpec, Station, errors_located, located
@@ -158,6 +158,18 @@ def solve_antenna(station: Station, *, cut_for_hz=None) -> antenna_report.Antenn
         return antenna_report.antenna_report(station, cut_for_hz)
 
 
+def solve_line(station: Station, *, line=None) -> line_report.LineCharacterisation:
+    """The line labelled ``line`` (default: the only line with sweeps) fitted to its open and short
+    sweeps: impedance, electrical length, velocity factor or length, loss terms, with intervals:
+    ``linecalc line [--line LABEL]``. A sweep that cannot characterise the line is a
+    `StationError` at the line's ``sweeps:`` key."""
+    try:
+        return line_report.characterise_line(station, line)
+    except budget.BudgetError as exc:
+        at = [e.sweeps.line for e in station.feed if getattr(e, "sweeps", None) is not None and e.sweeps.key == exc.key]
+        raise located(station, exc, at[0] if at else None) from None
+
+
 def list_cables(frequency_hz=LISTING_FREQUENCIES_HZ) -> CableListing:
     """The cable library with each cable's matched loss at ``frequency_hz`` [Hz]: ``linecalc cables``."""
     return cable_listing(cable_library.load_library().values(), frequency_hz)
@@ -189,4 +201,5 @@ def input_files(station: Station) -> list[Path]:
 
 
 __all__ = ["StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables", "load_station",
-           "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]
+           "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_line",
+           "solve_safety"]

@@ -100,6 +100,15 @@ def build_parser() -> argparse.ArgumentParser:
                          help="also give the length to cut for resonance at this frequency, such as 14.1MHz")
     antenna.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
+    line = commands.add_parser("line", help="characterise a line from open and short sweeps of its near end: "
+                               "impedance, electrical length, velocity factor or length, loss, with intervals")
+    line.add_argument("station", help="station file whose line has sweeps: {open: FILE.s1p, short: FILE.s1p}")
+    line.add_argument("--line", metavar="LABEL", help="the line to characterise (default: the only line with sweeps)")
+    line.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+    line.add_argument("--write-cable", metavar="FILE.yaml",
+                      help="also write the fitted line as a feed entry with an inline cable (station format)")
+    line.add_argument("--force", action="store_true", help="overwrite an existing --write-cable file")
+
     cables = commands.add_parser("cables", help="list the cable library with its matched loss")
     cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
     return parser
@@ -366,6 +375,35 @@ def _run_antenna(args) -> int:
     return EXIT_OK
 
 
+def _run_line(args) -> int:
+    from linecalc import api
+    from linecalc.io import atomic
+    from linecalc.render import json_text, line_text
+
+    station = api.load_station(args.station)
+    result = api.solve_line(station, line=args.line)
+    if args.write_cable is not None:  # written before anything is printed: a refused write prints nothing
+        if not args.write_cable:
+            raise OptionError("--write-cable: an output name may not be empty")
+        data = line_text.fitted_cable_yaml(result).encode("utf-8")  # a station file is UTF-8, as a label may be
+        try:
+            atomic.write_atomically(args.write_cable, lambda out: out.write(data), binary=True, force=args.force,
+                                    protected=api.input_files(station))
+        except atomic.OutputExistsError:
+            raise OptionError(f"--write-cable: {args.write_cable}: exists; use --force to replace it") from None
+        except InputError as exc:
+            raise OptionError(f"--write-cable: {exc}") from None
+    if args.format == "json":
+        sys.stdout.write(json_text.to_json(result.to_dict()))
+    else:
+        sys.stdout.write(line_text.line_table(result))
+    if args.write_cable is not None:
+        print(f"wrote {args.write_cable}", file=sys.stderr)
+    for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+    return EXIT_OK
+
+
 def _run_cables(args) -> int:
     from linecalc import api
     from linecalc.render import json_text, tables
@@ -445,7 +483,7 @@ def _main(args) -> int:
             warnings.simplefilter("error", RuntimeWarning)
             return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
                     "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
-                    "antenna": _run_antenna, "cables": _run_cables}[args.command](args)
+                    "antenna": _run_antenna, "line": _run_line, "cables": _run_cables}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT
