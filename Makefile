@@ -23,6 +23,7 @@ demo: $(VENV)/.installed
 	$(BIN)/linecalc compare stations/tuner-in-shack.yaml --tuner-positions
 	$(BIN)/linecalc budget stations/meadow-doublet-planned.yaml
 	$(BIN)/linecalc antenna stations/garden-inverted-v.yaml --cut-for 7.1MHz
+	$(BIN)/linecalc line stations/barn-dipole-old-coax.yaml
 
 test: $(VENV)/.installed-test
 	$(BIN)/python -m pytest -q
