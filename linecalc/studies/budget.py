@@ -76,6 +76,7 @@ class BudgetResult:
     antenna_gain_dbi: float | None = 2.15  # None for a wire antenna: its gain per row is in ``wire``
     sweeps: tuple | None = None  # per row, its `BandSweep` (budget --sweep), or None
     wire: dict = field(default_factory=dict)  # a wire antenna: per-row peak gain, wire loss and heat
+    uncertainty: object | None = None  # budget --uncertainty: a `studies.uncertainty.BudgetSpread`
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc budget --format json`` (and of ``safety``); every key
@@ -117,7 +118,7 @@ class BudgetResult:
             if self.sweeps is not None:
                 row["sweep"] = self.sweeps[i].to_dict()
             rows.append(row)
-        return {
+        document = {
             "station": self.station,
             "reference_impedance_ohm": float(self.reference_impedance_ohm),
             "radio_power_w": float(self.radio_power_w),
@@ -128,6 +129,9 @@ class BudgetResult:
             "warnings": list(self.warnings),
             "cautions": list(CAUTIONS),
         }
+        if self.uncertainty is not None:
+            document["uncertainty"] = self.uncertainty.to_dict()
+        return document
 
 
 def _antenna_rho(antenna, frequency_hz, z_ref_ohm):

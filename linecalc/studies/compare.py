@@ -100,6 +100,7 @@ class Comparison:
     warnings: tuple[str, ...] = ()
     line_study: LineStudy | None = None
     changes: tuple[tuple[str, ...], ...] = ()  # per alternative, what it added, moved or dropped
+    uncertainty: object | None = None  # compare --uncertainty: a `studies.uncertainty.CompareSpread`
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc compare --format json``: per row, each alternative's
@@ -128,6 +129,8 @@ class Comparison:
                           "closed_form_loss_db": [finite_or_none(v) for v in study.closed_form_loss_db[:, i]],
                           "swr_load": [finite_or_none(v) for v in study.swr_load[:, i]]}
                          for i, label in enumerate(self.labels)]}
+        if self.uncertainty is not None:
+            doc["uncertainty"] = self.uncertainty.to_dict()
         return doc
 
 
