@@ -19,7 +19,7 @@ import numpy as np
 from linecalc.physics.cables import line_constants
 from linecalc.physics.cascade import cascade_abcd
 from linecalc.physics.lumped import series_abcd
-from linecalc.physics.small_parts import rlgc_for_resistance, series_resistance_for_loss_ohm, winding_resistance_ohm_per_m
+from linecalc.physics.small_parts import rlgc_for_resistance, series_resistance_for_loss_ohm
 from linecalc.physics.twoports import line_abcd, line_abcd_scaled, transformer_abcd
 
 # The defaults, documented in the README (Uncertainty) where the options are:
@@ -118,10 +118,13 @@ def drawn_connector_abcd(frequency_hz, loss_db, z_ref_ohm, factor):
     return series_abcd(np.broadcast_to(resistance, (factor.shape[0], np.size(frequency_hz))).astype(complex))
 
 
-def drawn_winding_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, loss_db, factor,
+def drawn_winding_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, r_ohm_per_m, factor,
                        impedance_ratio=None):
     """A choke's or balun's winding (then its ideal transformer of ``impedance_ratio``) with its
-    conductor resistance times ``factor`` (draws, 1), shape (draws, nf, 2, 2).
+    conductor resistance ``r_ohm_per_m`` (nf,) times ``factor`` (draws, 1), shape (draws, nf, 2, 2).
+
+    ``r_ohm_per_m`` is the winding's resistance for its nominal loss
+    (`linecalc.physics.small_parts.winding_resistance_ohm_per_m`, solved once for all draws).
 
     Notes
     -----
@@ -134,15 +137,14 @@ def drawn_winding_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, 
     Pozar, Microwave Engineering, 4th ed., sections 2.1 and 2.7; `linecalc.physics.small_parts`.
     """
     f = np.asarray(frequency_hz, dtype=float)
-    if length_m == 0 or loss_db == 0:
+    if length_m == 0:
         one = np.ones((factor.shape[0], f.size), complex)
         matrix = np.stack([np.stack([one, 0 * one], -1), np.stack([0 * one, one], -1)], -2)
     else:
-        r = winding_resistance_ohm_per_m(f, z0_nominal_ohm, velocity_factor, length_m, loss_db) * factor
+        r = np.asarray(r_ohm_per_m, dtype=float) * factor
         grid = np.broadcast_to(f, r.shape)
         z0, gamma = line_constants(grid, rlgc_for_resistance(grid, z0_nominal_ohm, velocity_factor, r))
         matrix = line_abcd(z0, gamma, length_m)
     if impedance_ratio is None:
         return matrix
     return cascade_abcd([matrix, transformer_abcd(impedance_ratio, f)])
-

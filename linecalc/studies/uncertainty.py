@@ -15,6 +15,7 @@ import numpy as np
 from linecalc.physics import deembed
 from linecalc.physics.cascade import NoNetPowerError, input_impedance, reflection, rescaled, solve_path, swr_from_rho
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, SwrTable, rho_from_impedance
+from linecalc.physics.small_parts import winding_resistance_ohm_per_m
 from linecalc.physics.source import radio_drive
 from linecalc.physics.tolerance import (Tolerances, disc, drawn_connector_abcd, drawn_line_abcd, drawn_winding_abcd,
                                         generator, uniform_factor)
@@ -63,7 +64,7 @@ def _drawn_abcd(element, frequency_hz, drawn, scaled):
     if element.kind in ("choke", "balun"):
         ratio = element.impedance_ratio if element.kind == "balun" else None
         return drawn_winding_abcd(frequency_hz, element.z_ref_ohm, element.velocity_factor, element.length_m,
-                                  element.loss_db, drawn["loss"], ratio)
+                                  drawn["r_ohm_per_m"], drawn["loss"], ratio)
     return element.scaled_abcd(frequency_hz) if scaled else element.abcd(frequency_hz)
 
 
@@ -105,24 +106,33 @@ def draw_station(station: Station, tolerances: Tolerances, frequency_hz=None, bu
     Returns a dict of (draws, nf) arrays: ``z_antenna_ohm`` always; with ``budget`` also
     ``power_antenna_w``, ``total_loss_db``, ``swr_antenna``, ``swr_radio``; and ``valid``, false
     for a draw whose antenna comes out active (a measurement de-embedded through a drawn path
-    that does not fit it), left out of every spread.
+    that does not fit it) or whose tuner cannot match it, left out of every spread.
     """
     _check(station, tolerances)
     f = np.asarray(station.frequency_hz if frequency_hz is None else frequency_hz, dtype=float)
     kinds = [element.kind for element in station.feed]
-    work_size.check_work(kinds, tolerances.draws * f.size, f"{tolerances.draws:,} draws x {f.size:,} frequencies")
+    # held for every draw at once: the antenna of each draw (de-embedded through the measurement
+    # path, one array per element there) and the results; the path itself is solved in chunks
+    held = [e.kind for e in station.feed[station.antenna.node:]] if isinstance(station.antenna, MeasuredAntenna) else []
+    work_size.check_work(held + ["results"], tolerances.draws * f.size,
+                         f"{tolerances.draws:,} draws x {f.size:,} frequencies")
+    work_size.check_work(kinds, f.size, "one draw")
     per_draw = work_size.estimate_bytes(kinds, f.size)
     chunk = max(1, int(CHUNK_BYTES // per_draw))
     drawn = [_element_draws(e, k, tolerances, tolerances.draws) for k, e in enumerate(station.feed)]
+    for element, d in zip(station.feed, drawn):  # a winding's resistance for its nominal loss, solved once
+        if element.kind in ("choke", "balun"):
+            d["r_ohm_per_m"] = np.broadcast_to(winding_resistance_ohm_per_m(
+                f, element.z_ref_ohm, element.velocity_factor, element.length_m, element.loss_db), (1, f.size))
     z_all = _antenna_z(station, f, tolerances, tolerances.draws, _measurement_path(station, f, drawn))
     parts = []
     for start in range(0, tolerances.draws, chunk):
         rows = slice(start, min(start + chunk, tolerances.draws))
-        parts.append(_solve_chunk(station, f, [{key: v[rows] for key, v in d.items()} for d in drawn], z_all[rows],
-                                  budget))
+        parts.append(_solve_chunk(station, f, [{key: v if key == "r_ohm_per_m" else v[rows] for key, v in d.items()}
+                                               for d in drawn], z_all[rows], budget))
     result = {key: np.concatenate([p[key] for p in parts]) for key in parts[0]}
     result["z_antenna_ohm"] = z_all
-    result["valid"] = np.isfinite(z_all) & (z_all.real >= 0)
+    result["valid"] = np.isfinite(z_all) & (z_all.real >= 0) & result.pop("solved", True)
     return result
 
 
@@ -143,6 +153,9 @@ def _solve_chunk(station, f, drawn, z_antenna, budget):
     rho_antenna = rho_from_impedance(z_antenna, z_ref)
     feed = station.feed
     abcd_list = [None if e.adapts_to_load else _drawn_abcd(e, f, d, scaled=True) for e, d in zip(feed, drawn)]
+    tuners = [k for k, e in enumerate(feed) if e.adapts_to_load]
+    if len(tuners) == 1 and feed[tuners[0]].network in FAST_NETWORKS:
+        return _solve_with_fast_tuner(station, f, abcd_list, tuners[0], rho_antenna, valid)
     for k in reversed(range(len(feed))):
         if abcd_list[k] is None:
             z_load = input_impedance(abcd_list[k + 1:], rho_antenna, z_ref)
@@ -164,7 +177,56 @@ def _solve_chunk(station, f, drawn, z_antenna, budget):
     else:
         rho_end = rho_antenna
     return {"power_antenna_w": solution.power_w[..., -1, :], "total_loss_db": solution.db_below_radio[..., -1, :],
-            "swr_antenna": swr_from_rho(rho_end), "swr_radio": swr_from_rho(rho_radio)}
+            "swr_antenna": swr_from_rho(rho_end), "swr_radio": swr_from_rho(rho_radio),
+            "solved": np.ones(rho_radio.shape, bool)}
+
+
+# Networks whose least-loss match has a fast twin (`physics.matching_fast`): the uncertainty run
+# solves a station with one such tuner from its least loss rather than its full design.
+FAST_NETWORKS = ("T", "L")
+
+
+def _solve_with_fast_tuner(station, f, abcd_list, k, rho_antenna, valid):
+    """The drawn path with one L or T tuner at ``k``, matched at its least loss in every draw.
+
+    A matched tuner presents its reference resistance at its input, so the path before it is
+    solved into R0 and the path after it for its share of the power; the tuner loses
+    10 log10(P_in / P_load) of `physics.matching_fast` (within 1e-3 dB of the full design).
+    A draw the tuner cannot match is left out (``solved`` false): the full design would leave it
+    at its closest setting, which this run does not model.
+    """
+    from linecalc.physics.matching_fast import l_network_least_loss, t_network_least_loss
+
+    z_ref, tuner = station.reference_impedance_ohm, station.feed[k]
+    before, after = abcd_list[:k], abcd_list[k + 1:]
+    z_load = input_impedance(after, rho_antenna, z_ref)
+    usable = valid & np.isfinite(z_load) & (z_load.real > 0)
+    z_load = np.where(usable, z_load, z_ref)
+    least = t_network_least_loss if tuner.network == "T" else l_network_least_loss
+    tuner_loss_db, matched = least(f, z_load, tuner.z_ref_ohm, tuner.parts)[:2]
+    matched = matched & usable
+    tuner_loss_db = np.where(matched, tuner_loss_db, 0.0)
+    try:
+        if after:
+            beyond = solve_path(after, rho_antenna, z_ref, 1.0)
+            share_db, rho_end = beyond.db_below_radio[..., -1, :], reflection(
+                beyond.state_v[..., -1, :], beyond.state_i[..., -1, :], station.feed[-1].port_z0_ohm(f)[1])
+        else:
+            share_db, rho_end = np.zeros(z_load.shape), rho_antenna
+        matched_input = np.zeros(z_load.shape, complex)  # the tuner's input: its reference resistance
+        if before:
+            ahead = solve_path(before, matched_input, tuner.z_ref_ohm, station.radio_power_w)
+            rho_radio = reflection(ahead.state_v[..., 0, :], ahead.state_i[..., 0, :], z_ref)
+            ahead_db = ahead.db_below_radio[..., -1, :]
+        else:
+            rho_radio, ahead_db = matched_input, np.zeros(z_load.shape)
+    except NoNetPowerError:
+        raise BudgetError("the path accepts no net power in some draws", "antenna") from None
+    drive = radio_drive(np.abs(rho_radio), station.radio_power_w, station.radio_holds, station.radio_foldback_swr,
+                        station.radio_max_power_w)
+    total_db = ahead_db + tuner_loss_db + share_db
+    return {"power_antenna_w": drive.net_w * 10 ** (-total_db / 10), "total_loss_db": total_db,
+            "swr_antenna": swr_from_rho(rho_end), "swr_radio": swr_from_rho(rho_radio), "solved": matched}
 
 
 def spread(values, valid):
@@ -227,13 +289,14 @@ def budget_spread(station: Station, result, tolerances: Tolerances) -> BudgetSpr
 
 
 def spread_warnings(spread_result: BudgetSpread) -> list[str]:
-    """A warning for the rows where drawn antennas came out active and were left out."""
+    """A warning for the rows where draws were left out (an active antenna, an unmatched tuner)."""
     left = [f"{label} ({n} of {spread_result.tolerances.draws})" for label, n
             in zip(spread_result.labels, spread_result.invalid) if n]
     if not left:
         return []
-    return [f"the uncertainty run left out draws whose de-embedded antenna came out active (|rho| > 1) on "
-            f"{', '.join(left)}: the measurement does not fit the path at those drawn values"]
+    return [f"the uncertainty run left out draws on {', '.join(left)}: a de-embedded antenna that comes out "
+            "active (|rho| > 1: the measurement does not fit the path at those drawn values) or a tuner that "
+            "cannot match; the spread is of the others"]
 
 
 TOO_CLOSE = "too close to call"
