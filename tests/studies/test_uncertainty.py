@@ -67,3 +67,26 @@ def test_an_swr_only_antenna_is_refused(make_station, library):
                            SwrTable(np.array([7.1e6]), np.array([1.8])))
     with pytest.raises(BudgetError, match="SWR reading has no phase"):
         draw_station(station, Tolerances(draws=10))
+
+
+def test_a_tuner_matched_by_the_fast_closed_forms_agrees_with_its_full_design(make_station, library, monkeypatch):
+    # the same drawn stations solved twice: the L or T tuner at its least loss by
+    # physics.matching_fast, and by the full design of physics.matching (which the budget uses);
+    # matching_fast's docstring promises the loss within 1e-3 dB of the full design's
+    from linecalc.elements import Tuner
+    from linecalc.io.feed_file import TUNER_CAPACITANCE_F, TUNER_INDUCTANCE_H
+    from linecalc.physics.matching import TunerParts
+    from linecalc.studies import uncertainty
+
+    parts = TunerParts(*TUNER_CAPACITANCE_F, *TUNER_INDUCTANCE_H, 100.0, 1000.0)
+    station = make_station([Tuner("tuner", "T", parts, 50.0, 3.0, False, None, None),
+                            Line(library["rg-213"], 20.0, label="coax")], [3.6e6, 7.1e6, 14.2e6],
+                           [200 - 300j, 30 + 80j, 900 + 400j], holds="forward")
+    tolerances = Tolerances(draws=40, seed=4)
+    fast = draw_station(station, tolerances)
+    monkeypatch.setattr(uncertainty, "FAST_NETWORKS", ())
+    full = draw_station(station, tolerances)
+    assert fast["valid"].all() and full["valid"].all()
+    np.testing.assert_allclose(fast["total_loss_db"], full["total_loss_db"], atol=2e-3)
+    np.testing.assert_allclose(fast["swr_antenna"], full["swr_antenna"], rtol=1e-9)
+    np.testing.assert_allclose(fast["swr_radio"], full["swr_radio"], atol=2e-3)
