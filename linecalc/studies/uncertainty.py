@@ -232,6 +232,8 @@ def _solve_with_fast_tuner(station, f, abcd_list, k, rho_antenna, valid):
 def spread(values, valid):
     """Per column: (2.5th percentile, median, 97.5th percentile) and the standard deviation over the
     valid draws; NaN where no draw is valid."""
+    if valid.all():  # the usual case, in one call
+        return tuple(np.percentile(values, PERCENTILES, axis=0)), values.std(axis=0)
     percentiles = np.full((3,) + values.shape[1:], np.nan)
     std = np.full(values.shape[1:], np.nan)
     for j in range(values.shape[1]):
