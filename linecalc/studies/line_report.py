@@ -37,8 +37,11 @@ def _line_with_sweeps(station: Station, label):
     lines = [(k, e) for k, e in enumerate(station.feed) if e.kind == "line"]
     if label is None:
         swept = [(k, e) for k, e in lines if e.sweeps is not None]
-        if len(swept) != 1:
-            named = ", ".join(repr(e.label) for _, e in swept) or "none"
+        if not swept:
+            raise BudgetError("no line has sweeps: give the line to characterise sweeps: {open: FILE.s1p, "
+                              "short: FILE.s1p}", "feed")
+        if len(swept) > 1:
+            named = ", ".join(repr(e.label) for _, e in swept)
             raise BudgetError(f"give the line to characterise with --line LABEL (lines with sweeps: {named})", "feed")
         return swept[0]
     for k, element in lines:

@@ -154,3 +154,5 @@ def test_unknown_line_and_a_line_without_sweeps_exit_2(swept, tmp_path, cli, wri
     plain = write_file("plain.yaml", STATION.replace("      sweeps: {open: open.s1p, short: short.s1p}\n", ""))
     code, out, err = cli("line", plain, "--line", "main coax")
     assert code == 2 and out == "" and "has no sweeps" in one_error_line(err, plain)[1]
+    code, out, err = cli("line", plain)
+    assert code == 2 and out == "" and "no line has sweeps" in one_error_line(err, plain)[1]
