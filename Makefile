@@ -23,6 +23,7 @@ demo: $(VENV)/.installed
 	$(BIN)/linecalc compare stations/tuner-in-shack.yaml --tuner-positions
 	$(BIN)/linecalc budget stations/meadow-doublet-planned.yaml
 	$(BIN)/linecalc antenna stations/garden-inverted-v.yaml --cut-for 7.1MHz
+	$(BIN)/linecalc line stations/barn-dipole-old-coax.yaml
 
 # Debian's chromium for the browser checks of the HTML report (tests/render/test_html_report_browser.py):
 # installed with apt-get when /usr/bin/chromium is missing and make runs as root; otherwise (or if
@@ -48,6 +49,7 @@ bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_scale.py
 	$(BIN)/python bench/bench_startup.py
 	$(BIN)/python bench/bench_wire.py
+	$(BIN)/python bench/bench_uncertainty.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info linecalc.egg-info

@@ -15,7 +15,8 @@ from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
 from linecalc.studies import antenna_report, budget, length_advice, measured
 from linecalc.studies import compare as compare_study
 from linecalc.studies import explain as explain_study
-from linecalc.studies import figure_data, work_size
+from linecalc.studies import figure_data, line_report, work_size
+from linecalc.studies import uncertainty as uncertainty_study
 from linecalc.studies.band_sweep import solve_band_sweeps
 from linecalc.studies.cable_listing import LISTING_FREQUENCIES_HZ, CableListing, cable_listing
 from linecalc.studies.station import CompareSpec, Station, errors_located, located
@@ -39,15 +40,18 @@ def load_station(source) -> Station:
     return station_file.load_station(source)
 
 
-def solve_budget(station: Station, *, sweep_points: int | None = None, explain: bool = False) -> budget.BudgetResult:
+def solve_budget(station: Station, *, sweep_points: int | None = None, explain: bool = False,
+                 uncertainty=None) -> budget.BudgetResult:
     """The loss budget of every row (band or frequency): SWR at both ends, losses, watts.
 
     With ``sweep_points``, each band is also swept edge to edge at that many points (the
     command's ``--sweep N``), and the result's ``sweeps`` holds one `BandSweep` per row. With
     ``explain``, its ``explanations`` hold the reasoning in words (the command's ``--explain``);
     the station's own alternatives (the tuner at the other end of the main line, the cables of
-    its ``compare:`` key) are solved for it. ``to_dict()`` equals ``linecalc budget --format
-    json`` (with ``--sweep N``, ``--explain``).
+    its ``compare:`` key) are solved for it. With ``uncertainty`` (a `Tolerances`), the result's
+    ``uncertainty`` holds the spread of every figure over that many drawn stations
+    (``--uncertainty``). ``to_dict()`` equals ``linecalc budget --format json`` with the same
+    options.
     """
     if sweep_points is not None:
         _check_sweep_points(station, sweep_points)
@@ -55,10 +59,28 @@ def solve_budget(station: Station, *, sweep_points: int | None = None, explain: 
         result = budget.solve_budget(station)
         if sweep_points is not None:
             result = _with_sweeps(result, *solve_band_sweeps(station, sweep_points))
+        if uncertainty is not None:
+            try:
+                spread = uncertainty_study.budget_spread(station, result, uncertainty)
+            except work_size.WorkTooLarge as exc:
+                raise UncertaintyError(str(exc)) from None
+            result = _with_uncertainty(result, spread)
         if explain:
             result = explain_study.with_explanations(
                 result, explain_study.explain_budget(result, explain_study.own_alternatives(station)))
     return result
+
+
+class UncertaintyError(InputError):
+    """An uncertainty run too large for memory (the message gives the estimate)."""
+
+
+def _with_uncertainty(result, spread):
+    """The budget with the spread of its figures, and the warnings of the uncertainty run after its own."""
+    import dataclasses
+
+    return dataclasses.replace(result, uncertainty=spread,
+                               warnings=result.warnings + tuple(uncertainty_study.spread_warnings(spread)))
 
 
 class SweepPointsError(InputError):
@@ -96,22 +118,34 @@ def solve_safety(station: Station, *, explain: bool = False) -> budget.BudgetRes
 
 
 def solve_compare(station: Station, *, cables=(), tuner_positions=False, main_line=None, line=None,
-                  lengths_m=(), explain=False) -> compare_study.Comparison:
+                  lengths_m=(), explain=False, uncertainty=None) -> compare_study.Comparison:
     """Alternatives of the station ranked band by band: ``linecalc compare``.
 
     The station file's ``compare:`` key is extended by these arguments, as by the command's
     options: ``cables`` library ids for the main line, ``tuner_positions`` the tuner at either
     end of the main line, ``main_line`` the line to replace (default the longest), ``line`` and
     ``lengths_m`` [m] other lengths of a line. With ``explain``, its ``explanations`` say row by
-    row which alternative wins and by how much (``linecalc compare --explain``).
+    row which alternative wins and by how much (``linecalc compare --explain``). With
+    ``uncertainty`` (a `Tolerances`) every alternative is also drawn, and the result's
+    ``uncertainty`` names a winner per row only where it wins in at least 97.5 % of the draws
+    (``--uncertainty``).
     """
     spec = _compare_spec(station.compare, cables, tuner_positions, main_line, line, lengths_m)
     try:
         with errors_located(station):
-            comparison = compare_study.compare(station, compare_study.alternatives_from_spec(station, spec))
+            alternatives = compare_study.alternatives_from_spec(station, spec)
+            comparison = compare_study.compare(station, alternatives)
             if explain:
                 comparison = explain_study.with_explanations(comparison, explain_study.explain_compare(comparison))
-            return comparison
+            if uncertainty is None:
+                return comparison
+            import dataclasses
+
+            try:
+                spread = uncertainty_study.compare_spread(comparison, alternatives, uncertainty)
+            except work_size.WorkTooLarge as exc:
+                raise UncertaintyError(str(exc)) from None
+            return dataclasses.replace(comparison, uncertainty=spread)
     except compare_study.CompareError as exc:
         raise located(station, budget.BudgetError(str(exc), "compare"),
                       station.key_lines.get("compare") or station.key_lines.get("feed", 1)) from None
@@ -146,11 +180,21 @@ def _compare_spec(spec, cables, tuner_positions, main_line, line, lengths_m) -> 
                        line=line or (spec.line if spec else None), lengths_m=lengths)
 
 
-def solve_feedpoint(station: Station) -> measured.FeedpointResult:
+def solve_feedpoint(station: Station, *, uncertainty=None) -> measured.FeedpointResult:
     """A sweep measured away from the feedpoint (``measured_at:``) moved to the antenna:
-    ``linecalc feedpoint``."""
+    ``linecalc feedpoint``. With ``uncertainty`` (a `Tolerances`), the result's ``uncertainty``
+    holds the spread of R, X and SWR at every point over the drawn stations (``--uncertainty``)."""
     with errors_located(station):
-        return measured.solve_feedpoint(station)
+        result = measured.solve_feedpoint(station)
+        if uncertainty is None:
+            return result
+        import dataclasses
+
+        try:
+            spread = uncertainty_study.feedpoint_spread(station, result, uncertainty)
+        except work_size.WorkTooLarge as exc:
+            raise UncertaintyError(str(exc)) from None
+        return dataclasses.replace(result, uncertainty=spread)
 
 
 def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=60.0, step_m=0.01,
@@ -171,6 +215,18 @@ def solve_antenna(station: Station, *, cut_for_hz=None) -> antenna_report.Antenn
     for resonance there beside the 468/f rule of thumb: ``linecalc antenna [--cut-for F]``."""
     with errors_located(station):
         return antenna_report.antenna_report(station, cut_for_hz)
+
+
+def solve_line(station: Station, *, line=None) -> line_report.LineCharacterisation:
+    """The line labelled ``line`` (default: the only line with sweeps) fitted to its open and short
+    sweeps: impedance, electrical length, velocity factor or length, loss terms, with intervals:
+    ``linecalc line [--line LABEL]``. A sweep that cannot characterise the line is a
+    `StationError` at the line's ``sweeps:`` key."""
+    try:
+        return line_report.characterise_line(station, line)
+    except budget.BudgetError as exc:
+        at = [e.sweeps.line for e in station.feed if getattr(e, "sweeps", None) is not None and e.sweeps.key == exc.key]
+        raise located(station, exc, at[0] if at else None) from None
 
 
 def list_cables(frequency_hz=LISTING_FREQUENCIES_HZ) -> CableListing:
@@ -298,5 +354,6 @@ def input_files(station: Station) -> list[Path]:
     return station_file.input_files(station.source_file)
 
 
-__all__ = ["ReportProblem", "StationError", "SweepPointsError", "draw_figure", "input_files", "list_cables",
-           "load_station", "render_report", "solve_advice", "solve_antenna", "solve_budget", "solve_compare", "solve_feedpoint", "solve_safety"]
+__all__ = ["ReportProblem", "StationError", "SweepPointsError", "UncertaintyError", "draw_figure", "input_files",
+           "list_cables", "load_station", "render_report", "solve_advice", "solve_antenna", "solve_budget",
+           "solve_compare", "solve_feedpoint", "solve_line", "solve_safety"]

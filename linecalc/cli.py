@@ -60,6 +60,7 @@ def build_parser() -> argparse.ArgumentParser:
                         help="write the impedance the radio sees (across the sweep with --sweep) as a Touchstone file")
     budget.add_argument("--force", action="store_true", help="overwrite an existing --radio-s1p file")
     budget.add_argument("--explain", action="store_true", help=EXPLAIN_HELP)
+    _add_uncertainty_options(budget)
 
     safety = commands.add_parser("safety", help="voltages on lines and tuner parts at PEP, RF-exposure distances, "
                                  "with the cautions")
@@ -74,6 +75,7 @@ def build_parser() -> argparse.ArgumentParser:
                            help="output format (default: table)")
     feedpoint.add_argument("--output", metavar="FILE.s1p", help="also write the feedpoint sweep as a Touchstone file")
     feedpoint.add_argument("--force", action="store_true", help="overwrite an existing --output file")
+    _add_uncertainty_options(feedpoint)
 
     advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band")
     advise.add_argument("station", help="station file with a tuner on the radio side of its feeder")
@@ -116,6 +118,7 @@ def build_parser() -> argparse.ArgumentParser:
     compare.add_argument("--format", choices=("table", "json", "csv"), default="table",
                          help="output format (default: table)")
     compare.add_argument("--explain", action="store_true", help=EXPLAIN_HELP)
+    _add_uncertainty_options(compare)
 
     antenna = commands.add_parser("antenna", help="a wire antenna on its own: impedance, SWR, nearest resonance, "
                                   "peak gain and wire loss per band; the length to cut for resonance")
@@ -130,9 +133,71 @@ def build_parser() -> argparse.ArgumentParser:
     report.add_argument("--output", required=True, metavar="FILE.html", help="the page to write")
     report.add_argument("--force", action="store_true", help="overwrite an existing --output file")
 
+    line = commands.add_parser("line", help="characterise a line from open and short sweeps of its near end: "
+                               "impedance, electrical length, velocity factor or length, loss, with intervals")
+    line.add_argument("station", help="station file whose line has sweeps: {open: FILE.s1p, short: FILE.s1p}")
+    line.add_argument("--line", metavar="LABEL", help="the line to characterise (default: the only line with sweeps)")
+    line.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
+    line.add_argument("--write-cable", metavar="FILE.yaml",
+                      help="also write the fitted line as a feed entry with an inline cable (station format)")
+    line.add_argument("--force", action="store_true", help="overwrite an existing --write-cable file")
+
     cables = commands.add_parser("cables", help="list the cable library with its matched loss")
     cables.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
     return parser
+
+
+def _add_uncertainty_options(parser):
+    """--uncertainty and its tolerances (defaults in linecalc.physics.tolerance, documented in the README)."""
+    from linecalc.physics import tolerance as t
+
+    group = parser.add_argument_group("uncertainty (a seeded Monte Carlo over every tolerance at once)")
+    group.add_argument("--uncertainty", action="store_true",
+                       help="show each figure with its spread over drawn stations (the central 95 %% of the draws)")
+    group.add_argument("--draws", type=int, default=t.DRAWS, metavar="N", help=f"stations drawn (default {t.DRAWS})")
+    group.add_argument("--seed", type=int, default=t.SEED, metavar="N", help=f"seed of the draws (default {t.SEED})")
+    low, high = t.CABLE_LOSS_PERCENT
+    group.add_argument("--tol-cable-loss", default=f"{low:g}:{high:g}", metavar="LOW:HIGH",
+                       help=f"cable loss above its figures, in %% (default {low:g}:{high:g})")
+    group.add_argument("--tol-velocity-factor", type=float, default=t.VELOCITY_FACTOR_TOLERANCE, metavar="X",
+                       help=f"+- on each velocity factor (default {t.VELOCITY_FACTOR_TOLERANCE:g})")
+    group.add_argument("--tol-length", type=float, default=t.LENGTH_PERCENT, metavar="PERCENT",
+                       help=f"+- on each line's length, in %% (default {t.LENGTH_PERCENT:g})")
+    group.add_argument("--tol-rho", type=float, default=t.RHO_ERROR, metavar="X",
+                       help=f"the instrument's reflection error, |delta rho| (default {t.RHO_ERROR:g})")
+    group.add_argument("--tol-antenna", type=float, default=t.ANTENNA_PERCENT, metavar="PERCENT",
+                       help=f"+- on R and X of an antenna table or model, in %% (default {t.ANTENNA_PERCENT:g})")
+    group.add_argument("--tol-parts", type=float, default=t.PART_LOSS_PERCENT, metavar="PERCENT",
+                       help=f"+- on each connector, choke and balun loss, in %% (default {t.PART_LOSS_PERCENT:g})")
+
+
+def _tolerances(args):
+    """The `Tolerances` of the uncertainty options, or None without --uncertainty."""
+    import math
+
+    from linecalc.physics.tolerance import Tolerances
+
+    if not args.uncertainty:
+        return None
+    try:
+        low, high = (float(x) for x in args.tol_cable_loss.split(":"))
+    except ValueError:
+        raise OptionError(f"--tol-cable-loss: two percentages LOW:HIGH such as 0:30, got {args.tol_cable_loss!r}") \
+            from None
+    if not (math.isfinite(low) and math.isfinite(high) and -100 < low <= high):
+        raise OptionError(f"--tol-cable-loss: LOW:HIGH with LOW above -100 and not above HIGH, got {args.tol_cable_loss!r}")
+    checks = (("--tol-velocity-factor", args.tol_velocity_factor, 0.5), ("--tol-length", args.tol_length, 99.0),
+              ("--tol-rho", args.tol_rho, 1.0), ("--tol-antenna", args.tol_antenna, 99.0),
+              ("--tol-parts", args.tol_parts, 100.0))
+    for name, value, most in checks:
+        if not 0 <= value <= most:
+            raise OptionError(f"{name}: from 0 to {most:g}, got {value:g}")
+    if not 2 <= args.draws <= 1_000_000:
+        raise OptionError(f"--draws: from 2 to 1,000,000, got {args.draws}")
+    if args.seed < 0:
+        raise OptionError(f"--seed: 0 or more, got {args.seed}")
+    return Tolerances((low, high), args.tol_velocity_factor, args.tol_length, args.tol_rho, args.tol_antenna,
+                      args.tol_parts, args.draws, args.seed)
 
 
 def _station_paths(arguments):
@@ -183,14 +248,20 @@ def _run_budget(args) -> int:
     if args.sweep is not None and args.format == "csv":
         raise OptionError("--sweep: the sweep is printed as a table or in JSON (--format table or json)")
     explain = _explain_checked(args)
+    tolerances = _tolerances(args)
+    if tolerances is not None and args.format == "csv":
+        raise OptionError("--uncertainty: the spread is printed as a table or in JSON (--format table or json)")
     results, failed, internal = [], False, False
     for path in paths:
         try:
             station = api.load_station(path)
             try:
-                results.append(api.solve_budget(station, sweep_points=args.sweep, explain=explain))
+                results.append(api.solve_budget(station, sweep_points=args.sweep, explain=explain,
+                                                uncertainty=tolerances))
             except api.SweepPointsError as exc:
                 raise OptionError(f"--sweep: {exc}") from None
+            except api.UncertaintyError as exc:
+                raise OptionError(f"--draws: {exc}") from None
         except StationError as exc:
             if len(paths) == 1:
                 raise
@@ -210,7 +281,10 @@ def _run_budget(args) -> int:
         if args.format == "csv":
             sys.stdout.write(csv_text.budgets_csv(results) if len(paths) > 1 else csv_text.budget_csv(results[0]))
         else:
+            from linecalc.render import uncertainty_text
+
             sys.stdout.write("\n".join(tables.budget_table(r) + (tables.sweep_table(r.sweeps) if r.sweeps else "")
+                                       + (uncertainty_text.spread_table(r.uncertainty) if r.uncertainty else "")
                                        + _explanations(r) for r in results))
     for result in results:
         for warning in result.warnings:
@@ -225,6 +299,15 @@ class OptionError(InputError):
     """A bad command-line option value: exit status 2, naming the option."""
 
 
+def _spread(comparison) -> str:
+    """The comparison's spread under --uncertainty as a table; empty without it."""
+    if comparison.uncertainty is None:
+        return ""
+    from linecalc.render import uncertainty_text
+
+    return uncertainty_text.compare_spread_table(comparison.uncertainty)
+
+
 def _run_compare(args) -> int:
     from linecalc import api
     from linecalc.render import csv_text, json_text, tables
@@ -232,15 +315,21 @@ def _run_compare(args) -> int:
     station = api.load_station(args.station)
     lengths_m = tuple(_length_option("--lengths", text) for text in args.lengths or ())
     explain = _explain_checked(args)
+    tolerances = _tolerances(args)
+    if tolerances is not None and args.format == "csv":
+        raise OptionError("--uncertainty: the spread is printed as a table or in JSON (--format table or json)")
     try:
         comparison = api.solve_compare(station, cables=args.cable, tuner_positions=args.tuner_positions,
                                        main_line=args.main_line, line=args.line, lengths_m=lengths_m,
-                                       explain=explain)
+                                       explain=explain, uncertainty=tolerances)
     except api.UnknownCableError as exc:
         raise OptionError(f"--cable: {exc}") from None
     except api.LengthError as exc:
         raise OptionError(f"--lengths: {exc}") from None
-    render = {"table": lambda c: tables.compare_table(c) + _explanations(c), "json": lambda c: json_text.to_json(c.to_dict()),
+    except api.UncertaintyError as exc:
+        raise OptionError(f"--draws: {exc}") from None
+    render = {"table": lambda c: tables.compare_table(c) + _spread(c) + _explanations(c),
+              "json": lambda c: json_text.to_json(c.to_dict()),
               "csv": csv_text.compare_csv}[args.format]
     sys.stdout.write(render(comparison))
     for warning in comparison.warnings:
@@ -283,10 +372,21 @@ def _run_feedpoint(args) -> int:
     from linecalc import api
     from linecalc.render import csv_text, json_text, tables
 
+    tolerances = _tolerances(args)
+    if tolerances is not None and args.format == "csv":
+        raise OptionError("--uncertainty: the spread is printed as a table or in JSON (--format table or json)")
     station = api.load_station(args.station)
-    result = api.solve_feedpoint(station)
+    try:
+        result = api.solve_feedpoint(station, uncertainty=tolerances)
+    except api.UncertaintyError as exc:
+        raise OptionError(f"--draws: {exc}") from None
     render = {"table": tables.feedpoint_table, "json": lambda r: json_text.to_json(r.to_dict()),
               "csv": csv_text.feedpoint_csv}[args.format]
+    if result.uncertainty is not None and args.format == "table":
+        from linecalc.render import uncertainty_text
+
+        plain = render
+        render = lambda r: plain(r) + uncertainty_text.feedpoint_spread_table(r)  # noqa: E731
     if args.output is not None:  # written before anything is printed: a refused write prints nothing
         _write_s1p(args.output, result.frequency_hz, result.sweep.z_antenna_ohm, station.reference_impedance_ohm,
                    f"feedpoint of {station.name}, recovered by linecalc from {result.source}", args.force,
@@ -440,6 +540,35 @@ def _run_antenna(args) -> int:
     return EXIT_OK
 
 
+def _run_line(args) -> int:
+    from linecalc import api
+    from linecalc.io import atomic
+    from linecalc.render import json_text, line_text
+
+    station = api.load_station(args.station)
+    result = api.solve_line(station, line=args.line)
+    if args.write_cable is not None:  # written before anything is printed: a refused write prints nothing
+        if not args.write_cable:
+            raise OptionError("--write-cable: an output name may not be empty")
+        data = line_text.fitted_cable_yaml(result).encode("utf-8")  # a station file is UTF-8, as a label may be
+        try:
+            atomic.write_atomically(args.write_cable, lambda out: out.write(data), binary=True, force=args.force,
+                                    protected=api.input_files(station))
+        except atomic.OutputExistsError:
+            raise OptionError(f"--write-cable: {args.write_cable}: exists; use --force to replace it") from None
+        except InputError as exc:
+            raise OptionError(f"--write-cable: {exc}") from None
+    if args.format == "json":
+        sys.stdout.write(json_text.to_json(result.to_dict()))
+    else:
+        sys.stdout.write(line_text.line_table(result))
+    if args.write_cable is not None:
+        print(f"wrote {args.write_cable}", file=sys.stderr)
+    for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
+    return EXIT_OK
+
+
 def _run_cables(args) -> int:
     from linecalc import api
     from linecalc.render import json_text, tables
@@ -537,7 +666,7 @@ def _main(args) -> int:
             warnings.simplefilter("error", RuntimeWarning)
             return {"budget": _run_budget, "safety": _run_safety, "feedpoint": _run_feedpoint,
                     "compare": _run_compare, "advise": _run_advise, "plot": _run_plot,
-                    "antenna": _run_antenna, "cables": _run_cables,
+                    "antenna": _run_antenna, "line": _run_line, "cables": _run_cables,
                     "report": _run_report}[args.command](args)
     except StationError as exc:
         print(str(exc), file=sys.stderr)

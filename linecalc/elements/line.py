@@ -1,13 +1,14 @@
 """Elements made of cable: a line in the path, and a stub in shunt across it."""
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
 from linecalc.elements.base import ElementDefaults
 from linecalc.physics.cables import Cable
 from linecalc.physics.cascade import ScaledAbcd
+from linecalc.physics.line_fit import OpenShortSweeps
 from linecalc.physics.lumped import shunt_abcd
 from linecalc.physics.twoports import (DB_PER_NEPER, line_abcd, line_abcd_scaled, stub_input_impedance_ohm,
                                        terminated_loss_db)
@@ -21,6 +22,8 @@ class Line(ElementDefaults):
     length_m: float | np.ndarray
     label: str = ""
     kind: str = "line"
+    # open/short sweeps of this line's near end (`linecalc line` fits them); the path never uses them
+    sweeps: OpenShortSweeps | None = field(default=None, compare=False, repr=False)
 
     def abcd(self, frequency_hz):
         z0, gamma = self.cable.constants(frequency_hz)

@@ -13,6 +13,8 @@ Defaults, all documented in the README where the key is:
   unbalanced``, ``output: balanced``. ``type: voltage``: ``inductance`` 20 uH (its magnetising
   inductance: four times 50 ohm of reactance at 1.8 MHz, common practice) and ``core_q`` 20
   (from memory) in place of ``length`` and ``velocity_factor``.
+- line: ``sweeps`` none (open and short sweeps for `linecalc line`); its ``velocity_factor`` none
+  (the physical length is the line's ``length``).
 - meter: ``impedance`` the radio's reference impedance.
 - series / shunt parts: ``inductor_q`` 100, ``capacitor_q`` 1000 (common practice), the
   resistor ideal.
@@ -37,6 +39,7 @@ from linecalc.physics.cables import (CONDUCTIVITY_S_PER_M, IACS_S_PER_M, STEEL_C
 from linecalc.elements import Choke, Connector, Line, LumpedPart, Meter, Stub, Transformer, Tuner, VoltageBalun
 from linecalc.elements.parts import (BALUN_LENGTH_M, BALUN_VELOCITY_FACTOR, CHOKE_LENGTH_M, CHOKE_VELOCITY_FACTOR,
                                      VOLTAGE_BALUN_CORE_Q, VOLTAGE_BALUN_INDUCTANCE_H)
+from linecalc.physics.line_fit import OpenShortSweeps
 from linecalc.physics.matching import TunerParts
 from linecalc.io.yaml_schema import decibels, frequency_table, mapping, number, quantity, string
 from linecalc.io.units import UnitError, parse_impedance, parse_loss_db_per_m
@@ -61,6 +64,9 @@ MAX_PART_LOSS_DB = 20.0
 MAX_CONNECTORS_LOSS_DB = 100.0
 MAX_WINDING_M = 100.0  # a choke's or balun's line section; longer is a line element
 RATIO_RANGE = (1e-4, 1e4)
+# Open and short sweeps are on one grid when every frequency agrees to this share (a file written
+# with fewer digits than the other still matches; two different grids do not).
+SWEEP_GRID_RTOL = 1e-9
 TUNER_CAPACITANCE_F = (10e-12, 500e-12)
 TUNER_INDUCTANCE_H = (0.05e-6, 30e-6)
 TUNER_MAX_SWR = 3.0
@@ -192,11 +198,50 @@ def _label(doc, ctx, kind, index):
 
 
 def _line(doc, ctx, index, z_ref_ohm):
-    mapping(doc, ctx, required=("cable", "length"), optional=("label",))
+    mapping(doc, ctx, required=("cable", "length"), optional=("label", "sweeps"))
     label = _label(doc, ctx, "line", index)
     cable = read_cable(doc["cable"], ctx.child(doc, "cable"), label)
     length = quantity(doc, "length", ctx, "m")
-    return Line(cable=cable, length_m=length, label=label)
+    sweeps = _sweeps(doc["sweeps"], ctx.child(doc, "sweeps")) if "sweeps" in doc else None
+    return Line(cable=cable, length_m=length, label=label, sweeps=sweeps)
+
+
+def _sweep_file(doc, ctx, key):
+    """One Touchstone one-port of ``sweeps:`` (a path relative to the station file) -> (f [Hz], Z [ohm], name)."""
+    from pathlib import Path
+
+    from linecalc.errors import StationError
+    from linecalc.io.touchstone import TouchstoneError, read_one_port
+
+    name = string(doc, key, ctx)
+    where = ctx.child(doc, key)
+    try:
+        frequency_hz, z_ohm = read_one_port(Path(ctx.file).parent / name)
+    except TouchstoneError as exc:
+        if exc.line is None:
+            raise where.error(str(exc)) from None
+        raise StationError(exc.file, exc.line, exc.message) from None
+    if not np.all(np.isfinite(z_ohm)):  # an exact open (S = 1): no line constants there
+        raise where.error(f"the sweep {name} is an exact open (S = 1, or Y = 0) at "
+                          f"{int((~np.isfinite(z_ohm)).sum())} point(s): its impedance is infinite there, which no "
+                          "real line's open end reads; leave those points out")
+    return frequency_hz, z_ohm, name
+
+
+def _sweeps(doc, ctx):
+    """``sweeps: {open: FILE.s1p, short: FILE.s1p, velocity_factor: 0.66}``: the line's near end swept with its
+    far end open, then shorted, on one frequency grid; ``velocity_factor`` (none by default) says the
+    physical length is to be found from it rather than the line's ``length`` used."""
+    mapping(doc, ctx, required=("open", "short"), optional=("velocity_factor",))
+    f_open, z_open, open_name = _sweep_file(doc, ctx, "open")
+    f_short, z_short, short_name = _sweep_file(doc, ctx, "short")
+    if f_open.shape != f_short.shape or not np.allclose(f_open, f_short, rtol=SWEEP_GRID_RTOL, atol=0):
+        raise ctx.child(doc, "short").error(
+            f"the open sweep {open_name} ({f_open.size} points, {f_open[0] / 1e6:g} to {f_open[-1] / 1e6:g} MHz) and "
+            f"the short sweep {short_name} ({f_short.size} points, {f_short[0] / 1e6:g} to {f_short[-1] / 1e6:g} MHz) "
+            "are on different frequencies; sweep both on the same points")
+    velocity_factor = number(doc, "velocity_factor", ctx, low=0, high=1) if "velocity_factor" in doc else None
+    return OpenShortSweeps(f_open, z_open, z_short, open_name, short_name, velocity_factor, ctx.path, ctx.line)
 
 
 def _loss(doc, ctx, default_db):

@@ -284,7 +284,8 @@ def parse_station_text(text, file="<station>") -> Station:
 
 
 def input_files(path) -> list[Path]:
-    """The files a station file reads: itself, and the Touchstone sweep its antenna names.
+    """The files a station file reads: itself, the Touchstone sweep its antenna names and the
+    open and short sweeps of its lines.
 
     For outputs, which must never replace an input. A file that cannot be read or parsed names
     only itself (loading it reports what is wrong).
@@ -295,10 +296,26 @@ def input_files(path) -> list[Path]:
     except StationError:
         return [path]
     antenna = doc.get("antenna") if isinstance(doc, dict) else None
-    name = antenna.get("touchstone") if isinstance(antenna, dict) else None
-    if isinstance(name, int) and not isinstance(name, bool):
-        name = str(name)  # touchstone: 123 names the file 123, as the loader reads it
-    return [path] + ([path.parent / name.strip()] if isinstance(name, str) and name.strip() else [])
+    names = [antenna.get("touchstone") if isinstance(antenna, dict) else None] + _sweep_names(doc)
+    files = [path]
+    for name in names:
+        if isinstance(name, int) and not isinstance(name, bool):
+            name = str(name)  # touchstone: 123 names the file 123, as the loader reads it
+        if isinstance(name, str) and name.strip():
+            files.append(path.parent / name.strip())
+    return files
+
+
+def _sweep_names(doc):
+    """The open and short sweeps that the feed's lines name (``line: {sweeps: {open, short}}``)."""
+    feed = doc.get("feed") if isinstance(doc, dict) else None
+    names = []
+    for item in feed if isinstance(feed, list) else ():
+        line = item.get("line") if isinstance(item, dict) else None
+        sweeps = line.get("sweeps") if isinstance(line, dict) else None
+        if isinstance(sweeps, dict):
+            names += [sweeps.get("open"), sweeps.get("short")]
+    return names
 
 
 def load_station(path) -> Station:

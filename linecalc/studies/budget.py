@@ -77,6 +77,7 @@ class BudgetResult:
     sweeps: tuple | None = None  # per row, its `BandSweep` (budget --sweep), or None
     wire: dict = field(default_factory=dict)  # a wire antenna: per-row peak gain, wire loss and heat
     explanations: tuple | None = None  # --explain: `studies.explain.Explanation` entries; None: not asked
+    uncertainty: object | None = None  # budget --uncertainty: a `studies.uncertainty.BudgetSpread`
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc budget --format json`` (and of ``safety``); every key
@@ -131,6 +132,8 @@ class BudgetResult:
         }
         if self.explanations is not None:  # only when asked for (--explain): absent otherwise
             doc["explanations"] = [e.to_dict() for e in self.explanations]
+        if self.uncertainty is not None:
+            doc["uncertainty"] = self.uncertainty.to_dict()
         return doc
 
 

@@ -101,6 +101,7 @@ class Comparison:
     line_study: LineStudy | None = None
     changes: tuple[tuple[str, ...], ...] = ()  # per alternative, what it added, moved or dropped
     explanations: tuple | None = None  # --explain: `studies.explain.Explanation` entries; None: not asked
+    uncertainty: object | None = None  # compare --uncertainty: a `studies.uncertainty.CompareSpread`
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc compare --format json``: per row, each alternative's
@@ -131,6 +132,8 @@ class Comparison:
                          for i, label in enumerate(self.labels)]}
         if self.explanations is not None:  # only when asked for (--explain): absent otherwise
             doc["explanations"] = [e.to_dict() for e in self.explanations]
+        if self.uncertainty is not None:
+            doc["uncertainty"] = self.uncertainty.to_dict()
         return doc
 
 

@@ -105,15 +105,19 @@ class FeedpointResult:
     source: str
     frequency_hz: np.ndarray
     sweep: deembed.DeembeddedSweep
+    uncertainty: object | None = None  # feedpoint --uncertainty: a `studies.uncertainty.FeedpointSpread`
 
     def to_dict(self) -> dict:
         """The JSON document of ``linecalc feedpoint --format json``."""
         sweep = self.sweep
-        return {"station": self.station, "source": self.source, "points": [
+        document = {"station": self.station, "source": self.source, "points": [
             {"frequency_hz": float(f), "z_antenna_ohm": [finite_or_none(z.real), finite_or_none(z.imag)],
              "swr_antenna": finite_or_none(swr), "sensitivity": finite_or_none(m), "active": bool(a)}
             for f, z, swr, m, a in zip(self.frequency_hz, sweep.z_antenna_ohm, sweep.swr_antenna, sweep.sensitivity,
                                        sweep.active)]}
+        if self.uncertainty is not None:
+            document["uncertainty"] = self.uncertainty.to_dict()
+        return document
 
 
 def solve_feedpoint(station: Station) -> FeedpointResult:

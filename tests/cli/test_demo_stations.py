@@ -76,3 +76,21 @@ def test_the_python_use_example_runs_and_equals_the_json_of_the_command(monkeypa
                               "--format", "json"], cwd=ROOT, capture_output=True, text=True, check=True,
                              env={**os.environ, "PYTHONWARNINGS": "error"})
     assert namespace["document"] == json.loads(command.stdout)
+
+
+def test_demo_line_sweeps_are_what_their_script_makes_and_fit_back_to_its_model(tmp_path, cli, capsys):
+    # stations/make_demo_line_sweeps.py is seeded: run again into a folder of its own, it writes
+    # the committed files byte for byte; the fit of the demo coax gives back the model it states
+    spec = importlib.util.spec_from_file_location("make_demo_line_sweeps", DEMOS / "make_demo_line_sweeps.py")
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    module.main(tmp_path)
+    for name in ("demo-old-coax-open.s1p", "demo-old-coax-short.s1p", "demo-barn-dipole-sweep.s1p"):
+        assert (tmp_path / name).read_bytes() == (DEMOS / name).read_bytes(), name
+    capsys.readouterr()  # the script's own "wrote ..." lines
+    code, out, err = cli("line", DEMOS / "barn-dipole-old-coax.yaml", "--format", "json")
+    assert code == 0, err
+    doc = json.loads(out)
+    # the script's stated model: 52 ohm, VF 0.76 (its docstring); within 0.5 %
+    assert doc["z0_nominal_ohm"] == pytest.approx(module.Z0_NOMINAL_OHM, rel=5e-3)
+    assert doc["velocity_factor"] == pytest.approx(module.VELOCITY_FACTOR, rel=5e-3)
