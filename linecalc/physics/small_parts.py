@@ -71,6 +71,10 @@ def connector_abcd(loss_db, z_ref_ohm, frequency_hz):
 # lumped estimate at most 64 times (2^64 times the estimate is past any part's loss).
 BISECTION_STEPS = 64
 BRACKET_DOUBLINGS = 64
+# Below this loss [dB] the section's loss is found by scaling: the loss of a section grows as R'
+# to first order (its second-order term is of relative size L, under 1e-6 here), while the
+# bisection cannot resolve a loss whose 10^(L/10) - 1 falls near the float resolution (2.2e-16).
+LINEAR_BELOW_DB = 1e-6
 
 
 def _section_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, r_ohm_per_m):
@@ -119,7 +123,8 @@ def winding_resistance_ohm_per_m(frequency_hz, z0_nominal_ohm, velocity_factor, 
     -------
     ndarray, shape (nf,)
         R' found by bisection on the loss of the section (`twoports.terminated_loss_db`), which
-        grows with R'. It starts from the lumped estimate Z0 (10^(L/10) - 1) / length.
+        grows with R'. It starts from the lumped estimate Z0 (10^(L/10) - 1) / length. Below
+        `LINEAR_BELOW_DB` the loss is proportional to R' and R' is scaled from that loss.
 
     Notes
     -----
@@ -136,6 +141,9 @@ def winding_resistance_ohm_per_m(frequency_hz, z0_nominal_ohm, velocity_factor, 
     frequency_hz = np.asarray(frequency_hz, dtype=float)
     if loss_db == 0:
         return np.zeros(frequency_hz.shape)
+    if loss_db < LINEAR_BELOW_DB:  # first order in R': scaled from the least loss that bisects well
+        return winding_resistance_ohm_per_m(frequency_hz, z0_nominal_ohm, velocity_factor, length_m,
+                                            LINEAR_BELOW_DB) * (loss_db / LINEAR_BELOW_DB)
 
     def loss(r):
         return terminated_loss_db(_section_abcd(frequency_hz, z0_nominal_ohm, velocity_factor, length_m, r),

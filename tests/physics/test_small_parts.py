@@ -27,6 +27,19 @@ def test_winding_loses_its_loss_between_reference_terminations(loss_db, length_m
     assert np.all(r > 0)
 
 
+@pytest.mark.parametrize("loss_db", [7e-25, 1e-12, 5e-7])
+def test_winding_of_a_loss_below_float_resolution_scales_with_it(loss_db):
+    # A property test found 7e-25 dB refused ("no conductor resistance gives a loss"). To first order
+    # a line section's loss grows as R' (Pozar, 4th ed., section 2.7: alpha = R'/(2 Z0) + G' Z0/2), so
+    # R' for a tiny loss is R' of a resolvable one scaled by the ratio; the lumped estimate
+    # Z0 (10^(L/10) - 1) / length = Z0 L ln(10)/10 / length agrees to a few 1e-3 at HF (the section is
+    # short against a wavelength).
+    r = small_parts.winding_resistance_ohm_per_m(F_HZ[1:4], 50.0, 0.66, 1.5, loss_db)
+    lumped = 50.0 * loss_db * np.log(10) / 10 / 1.5
+    np.testing.assert_allclose(r, lumped, rtol=5e-2)
+    assert np.all(r > 0)
+
+
 def test_winding_of_zero_length_is_no_section():
     abcd = small_parts.winding_abcd(F_HZ, 50.0, 0.7, 0.0, 0.0)
     np.testing.assert_array_equal(abcd, np.broadcast_to(np.eye(2), abcd.shape))
