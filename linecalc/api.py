@@ -140,14 +140,15 @@ def solve_feedpoint(station: Station) -> measured.FeedpointResult:
 
 def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=60.0, step_m=0.01,
                  points_per_band=length_advice.POINTS_PER_BAND, max_loss_db=None, allow_large_scan=False,
-                 progress=None) -> length_advice.AdviceResult:
+                 progress=None, rank="sum") -> length_advice.AdviceResult:
     """Which lengths of the feeder (``line``, default the longest) let the tuner match on every
-    band: ``linecalc advise``. Lengths in metres; ``progress(done, total)`` is called as the
+    band, ranked by the watts at the antenna (``rank``: ``"sum"`` over the rows, or ``"worst"``
+    row): ``linecalc advise``. Lengths in metres; ``progress(done, total)`` is called as the
     scan runs. ``to_dict(top)`` equals ``linecalc advise --top N --format json``."""
     with errors_located(station):
         return length_advice.advise_station(station, line, length_from_m, length_to_m, step_m,
                                             points_per_band=points_per_band, allow_large_scan=allow_large_scan,
-                                            progress=progress, max_loss_db=max_loss_db)
+                                            progress=progress, max_loss_db=max_loss_db, rank=rank)
 
 
 def solve_antenna(station: Station, *, cut_for_hz=None) -> antenna_report.AntennaReport:

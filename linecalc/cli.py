@@ -52,7 +52,8 @@ def build_parser() -> argparse.ArgumentParser:
     feedpoint.add_argument("--output", metavar="FILE.s1p", help="also write the feedpoint sweep as a Touchstone file")
     feedpoint.add_argument("--force", action="store_true", help="overwrite an existing --output file")
 
-    advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band")
+    advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band, "
+                                   "ranked by the watts at the antenna")
     advise.add_argument("station", help="station file with a tuner on the radio side of its feeder")
     advise.add_argument("--line", metavar="LABEL", help="the feeder to cut (default: the longest line)")
     advise.add_argument("--from", dest="length_from", default="5 m", metavar="LENGTH",
@@ -67,6 +68,9 @@ def build_parser() -> argparse.ArgumentParser:
     advise.add_argument("--max-loss", type=float, metavar="DB",
                         help="count only lengths whose worst-case tuner loss is at most DB dB (default: no limit)")
     advise.add_argument("--top", type=int, default=8, metavar="N", help="windows to list (default: 8)")
+    advise.add_argument("--rank", choices=("sum", "worst"), default="sum",
+                        help="rank lengths by the watts at the antenna summed over the rows (sum, the default) "
+                             "or in the worst row (worst)")
     advise.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
     plot = commands.add_parser("plot", help="draw a station: SWR across each band, loss budget, Smith chart, "
@@ -312,7 +316,7 @@ def _run_advise(args) -> int:
     try:
         result = api.solve_advice(station, line=args.line, length_from_m=low, length_to_m=high, step_m=step,
                                   points_per_band=args.points, allow_large_scan=args.allow_large_scan,
-                                  progress=_Progress("scanning"), max_loss_db=args.max_loss)
+                                  progress=_Progress("scanning"), max_loss_db=args.max_loss, rank=args.rank)
     except LengthRangeError as exc:
         raise OptionError(f"--from/--to: {exc}") from None
     except StepError as exc:
@@ -321,6 +325,8 @@ def _run_advise(args) -> int:
         raise OptionError(f"--step: {exc} (--allow-large-scan)") from None
     except AdvisorInputError as exc:
         raise OptionError(f"--points: {exc}") from None
+    for warning in result.warnings:
+        print(f"warning: {warning}", file=sys.stderr)
     if args.format == "json":
         sys.stdout.write(json_text.to_json(result.to_dict(args.top)))
     else:

@@ -398,10 +398,14 @@ def test_advice_table_lists_windows_both_ways(data_path):
                                    length_to_m=20, step_m=0.5)
     text = tables.advice_table(result, 3)
     assert "21 feeder lengths from 10 to 20 m" in text  # 10 m to 20 m in 0.5 m steps, both ends
-    assert "Windows by worst-case tuner loss" in text and "Windows by worst-case voltage on the feeder" in text
+    assert "Windows by the watts at the antenna summed over the rows" in text
+    assert "Windows by worst-case voltage on the feeder" in text
     headers, rows = parse_table(text, "from m")
-    assert headers == ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
+    assert headers == ["from m", "to m", "width m", "best m", "W sum at best", "worst row W", "loss there dB",
+                       "worst loss dB", "worst V RMS"]
     window = result.advice.windows[0]
+    assert shown(rows[0][4], window.power_sum_w, 1)
+    assert rows[0][5] == f"{window.worst_row_power_w:.1f} ({result.labels[window.worst_row]})"
     start, end = rows[0][0], rows[0][1]
     assert shown(start.rstrip(" <"), window.start_m, 2) and shown(end.rstrip(" >"), window.end_m, 2)
     assert start.endswith(" <") == window.at_range_start and end.endswith(" >") == window.at_range_end
