@@ -335,6 +335,48 @@ def advice_table(result, top) -> str:
     return "\n".join(lines) + "\n"
 
 
+def pair_advice_table(result, top) -> str:
+    """The antenna-length and feeder-length scan (a `PairAdviceResult`): per antenna length its
+    best feeder window, then the best ``top`` pairs."""
+    first = result.scans[0]
+    labels = first.labels
+    lengths, feeder = result.antenna_length_m, first.advice.length_m
+    ranked = "summed over the rows" if result.rank == "sum" else "in the worst row (--rank worst)"
+    what = "height" if result.shape == "vertical" else "length, tip to tip"
+    lines = [f"{result.station}: {lengths.size} antenna lengths ({what}) from {lengths[0]:g} to {lengths[-1]:g} m, "
+             f"each with {feeder.size} feeder lengths from {feeder[0]:g} to {feeder[-1]:g} m, "
+             f"{first.advice.frequency_hz.size} frequencies, {first.advice.network} tuner", ""]
+    body = []
+    for length, scan in zip(lengths, result.scans):
+        windows = scan.advice.windows
+        best = windows[0] if windows else None
+        body.append([f"{length:.2f}", f"{100 * scan.qualifying_fraction:.0f}", str(len(windows)),
+                     f"{best.best_length_m:.2f}" if best else "-", f"{best.power_sum_w:.1f}" if best else "-",
+                     (f"{best.worst_row_power_w:.1f} ({labels[best.worst_row]})" if best else "-")])
+    lines += [f"Per antenna length, the best feeder length (by the watts at the antenna {ranked}):",
+              tabulate(body, headers=["antenna m", "feeder lengths matching %", "windows", "best feeder m",
+                                      "W sum", "worst row W"], disable_numparse=True, stralign="right"), ""]
+    pairs = result.pairs()
+    if pairs:
+        rows = [[f"{a:.2f}"] + row for (a, _), row in zip(pairs[:top], _window_rows([w for _, w in pairs], top, labels))]
+        lines += [f"The best {min(top, len(pairs))} of {len(pairs)} (antenna length, feeder window) pairs, by the watts "
+                  f"at the antenna {ranked} (radio at {first.advice.radio_power_w:g} W):",
+                  tabulate(rows, headers=["antenna m"] + ADVICE_HEADERS, disable_numparse=True, stralign="right"), "",
+                  "best m: the feeder length with the most watts in the window; W sum: the watts at the antenna "
+                  "there, summed over the rows.",
+                  "The antenna model leaves out the feedline, insulators and nearby objects: cut the wire a little "
+                  "long and pick lengths inside wide windows."]
+    else:
+        lines.append("No pair of lengths in the ranges lets the tuner match on every band: widen the ranges, change "
+                     "the tuner's ranges or drop a band.")
+    lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."
+              if first.feeder_kind == "balanced" else
+              "Caution: at high SWR a coax feeder can carry more voltage than its rating; check it with linecalc safety.",
+              "Keep antennas well clear of power lines; lightning protection and grounding follow local code and "
+              "licensed practice."]
+    return "\n".join(lines) + "\n"
+
+
 def antenna_table(report) -> str:
     """A wire antenna (an `AntennaReport`) per row, and the cut length if one was asked for."""
     line = report.line_label
