@@ -9,11 +9,13 @@ The scan: a copper doublet 10 m high over average ground from 2 x 10 to 2 x 25 m
 1 cm steps (5,501 lengths), 80 m to 10 m (9 bands, edges and centre: 27 frequencies), a T tuner.
 Per antenna length: one engine run over every frequency (impedance only) and one whole feeder
 scan. It prints the time per antenna length, the share the engine takes, and the whole scan
-with one process and with --jobs processes running the engine (default: one per processor).
+with one process (wall and processor time, and the load average, since the development machine
+is shared) and with --jobs processes running the engine (default: one per processor).
 """
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import os
 import time
 
@@ -38,11 +40,12 @@ feed:
 
 
 def whole(station, step_m, jobs, per_length):
+    """Wall time [s], this process's processor time [s] and the result of the whole scan."""
     wire_antenna.clear_cache()
-    start = time.perf_counter()
+    start, cpu = time.perf_counter(), time.process_time()
     result = pair_advice.advise_pairs(station, None, 20.0, 50.0, step_m, 5.0, 60.0, 0.01, jobs=jobs,
                                       antenna_progress=lambda done, total, length, s: per_length.append(s))
-    return time.perf_counter() - start, result
+    return time.perf_counter() - start, time.process_time() - cpu, result
 
 
 def main():
@@ -57,7 +60,6 @@ def main():
           f"{setup.frequency_hz.size} frequencies, T tuner, average ground; {os.cpu_count()} processors")
 
     # one antenna length, its parts: the engine run and the feeder scan
-    import dataclasses
     engine_s, scan_s = [], []
     for length in (lengths[0], lengths[lengths.size // 2], lengths[-1]):
         wire_antenna.clear_cache()
@@ -71,11 +73,12 @@ def main():
               f"frequency), feeder scan {scan_s[-1]:.2f} s")
     print(f"engine share of one antenna length: {np.sum(engine_s) / (np.sum(engine_s) + np.sum(scan_s)):.0%}")
 
-    one_s, result = whole(station, args.step, 1, per_one := [])
-    print(f"whole scan, 1 process: {one_s:.1f} s, {one_s / lengths.size:.2f} s per antenna length "
-          f"(least {min(per_one):.2f} s, most {max(per_one):.2f} s)")
+    print(f"load average before the whole scan: {os.getloadavg()[0]:.1f} (other work shares the processors)")
+    one_s, one_cpu, result = whole(station, args.step, 1, per_one := [])
+    print(f"whole scan, 1 process: {one_s:.1f} s wall, {one_cpu:.1f} s processor; {one_s / lengths.size:.2f} s per "
+          f"antenna length (least {min(per_one):.2f} s, most {max(per_one):.2f} s)")
     if args.jobs > 1:
-        many_s, other = whole(station, args.step, args.jobs, [])
+        many_s, _, other = whole(station, args.step, args.jobs, [])
         same = other.to_dict(50) == result.to_dict(50)
         print(f"whole scan, {args.jobs} processes for the engine: {many_s:.1f} s ({one_s / many_s:.2f}x faster; "
               f"the same document: {same})")

@@ -6,7 +6,6 @@ from __future__ import annotations
 
 import argparse
 import contextlib
-import os
 import sys
 import warnings
 from linecalc import __version__
@@ -65,7 +64,8 @@ def build_parser() -> argparse.ArgumentParser:
     advise.add_argument("--points", type=int, default=3, metavar="N",
                         help="points per band, edges included (default: 3, the edges and the centre)")
     advise.add_argument("--allow-large-scan", action="store_true",
-                        help="allow more than 2,000,000 length x frequency evaluations")
+                        help="allow more than 2,000,000 length x frequency evaluations per feeder scan, "
+                             "and more than 200 antenna lengths")
     advise.add_argument("--max-loss", type=float, metavar="DB",
                         help="count only lengths whose worst-case tuner loss is at most DB dB (default: no limit)")
     advise.add_argument("--top", type=int, default=8, metavar="N", help="windows to list (default: 8)")
@@ -75,8 +75,8 @@ def build_parser() -> argparse.ArgumentParser:
     advise.add_argument("--antenna-to", metavar="LENGTH", help="the last antenna length of that scan")
     advise.add_argument("--antenna-step", default="1 m", metavar="LENGTH",
                         help="antenna length step (default: 1 m)")
-    advise.add_argument("--jobs", type=int, default=None, metavar="N",
-                        help="processes that solve the antenna lengths (default: one per processor)")
+    advise.add_argument("--jobs", type=int, default=1, metavar="N",
+                        help="worker processes that solve the antenna lengths (default: 1, this process)")
     advise.add_argument("--rank", choices=("sum", "worst"), default="sum",
                         help="rank lengths by the watts at the antenna summed over the rows (sum, the default) "
                              "or in the worst row (worst)")
@@ -325,9 +325,8 @@ def _run_advise(args) -> int:
     if (args.antenna_from is None) != (args.antenna_to is None):
         raise OptionError("--antenna-from/--antenna-to: give both, the first and the last antenna length")
     pairs = args.antenna_from is not None
-    if args.jobs is not None and args.jobs < 1:
+    if args.jobs < 1:
         raise OptionError(f"--jobs: at least 1 process, got {args.jobs}")
-    jobs = args.jobs if args.jobs is not None else max(1, os.cpu_count() or 1)
     if pairs:
         antenna = [_antenna_length_option(name, text) for name, text in
                    (("--antenna-from", args.antenna_from), ("--antenna-to", args.antenna_to),
@@ -340,7 +339,7 @@ def _run_advise(args) -> int:
         if pairs:
             result = api.solve_pair_advice(station, antenna_from_m=antenna[0], antenna_to_m=antenna[1],
                                            antenna_step_m=antenna[2], antenna_progress=_antenna_progress,
-                                           jobs=jobs, **options)
+                                           jobs=args.jobs, **options)
         else:
             result = api.solve_advice(station, progress=_Progress("scanning"), **options)
     except AntennaStepError as exc:

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import dataclasses
 import multiprocessing
+import signal
 import time
 from concurrent.futures import ProcessPoolExecutor
 from contextlib import contextmanager
@@ -124,6 +125,8 @@ def advise_pairs(station: Station, line_label, antenna_from_m, antenna_to_m, ant
     with the wall time it took (engine run and feeder scan); ``progress`` as in the feeder scan.
     The station's antenna keeps its shape, height, feed point share, wire and ground. ``jobs``
     processes run the engine (1, the default: this process alone); the feeder scans run here.
+    More than one job spawns worker processes, which import the main module: a script that
+    calls this with ``jobs > 1`` needs the ``if __name__ == "__main__":`` guard.
 
     Returns
     -------
@@ -167,10 +170,17 @@ def _engine_runs(antennas, frequency_hz, jobs):
     if jobs == 1:
         yield (antenna_impedance(antenna, frequency_hz) for antenna in antennas)
         return
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=multiprocessing.get_context("spawn")) as pool:
+    with ProcessPoolExecutor(max_workers=jobs, mp_context=multiprocessing.get_context("spawn"),
+                             initializer=_leave_interrupts_to_the_main_process) as pool:
         futures = [pool.submit(antenna_impedance, antenna, frequency_hz) for antenna in antennas]
         try:
             yield (future.result() for future in futures)
         finally:
             for future in futures:
                 future.cancel()
+
+
+def _leave_interrupts_to_the_main_process():
+    """In a worker: ignore Ctrl-C, which the main process turns into its one line and status 130
+    (the workers end when it shuts the pool down)."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
