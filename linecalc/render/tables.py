@@ -299,7 +299,8 @@ def advice_summary(result) -> list[str]:
     return [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
             f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
             f"The tuner matches on every frequency at {matched:.0f} % of the lengths{within}; {count} "
-            f"{'window' if count == 1 else 'windows'} ({limit:.2f} m in all) meet the conditions."]
+            f"{'window' if count == 1 else 'windows'} ({limit:.2f} m in all) {'meets' if count == 1 else 'meet'} "
+            "the conditions."]
 
 
 def advice_table(result, top) -> str:
