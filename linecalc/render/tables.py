@@ -321,8 +321,9 @@ def advice_table(result, top) -> str:
                            disable_numparse=True, stralign="right"),
                   "", "best m: the window's length with the most watts; W sum: the watts at the antenna there, "
                       "summed over the rows",
-                  "(each row at its own frequency, the band's centre); loss there: the worst-case tuner loss at "
-                  "that length.",
+                  "(each row at its own frequency, the band's centre), within about 1 % of budget and compare "
+                  "--lengths",
+                  "(their tuner design is finer); loss there: the worst-case tuner loss at that length.",
                   "< or >: the window reaches the end of the scan and may go on beyond it.",
                   "Pick a length inside a wide window: real antennas and lines differ from their models."]
     else:
