@@ -43,6 +43,9 @@ CACHE_CHUNK_EVALUATIONS = 2**15
 STEP_ROUNDING = 1e-9
 # How lengths are ranked by the watts at the antenna: their sum over the rows, or the worst row.
 RANKS = ("sum", "worst")
+# Least distance between two listed peak lengths [m]: closer peaks are the ripple of the tuner's
+# least loss from step to step, and a feeder is not cut, nor modelled, closer than that.
+PEAK_SEPARATION_M = 1.0
 
 
 class AdvisorInputError(InputError):
@@ -391,6 +394,42 @@ def rank_score(row_power_w, rank):
     if rank not in RANKS:
         raise AdvisorInputError(f"rank is one of {', '.join(RANKS)}, got {rank!r}")
     return np.sum(row_power_w, axis=-1) if rank == "sum" else np.min(row_power_w, axis=-1)
+
+
+def peak_lengths(length_m, score, qualifies, count, separation_m=PEAK_SEPARATION_M):
+    """Indices of the lengths where ``score`` peaks, best first, at least ``separation_m`` apart.
+
+    A peak is a qualifying length whose score is at least that of each qualifying neighbour (a
+    window's ends count when they are); a peak closer than ``separation_m`` to a better one is
+    left out (the ripple of the tuner's least loss from one step to the next is not a choice).
+
+    Parameters
+    ----------
+    length_m : ndarray, shape (L,)
+        Scanned lengths [m], increasing.
+    score : ndarray, shape (L,)
+        What the lengths are ranked by (`rank_score`) [W], finite where ``qualifies``.
+    qualifies : ndarray of bool, shape (L,)
+    count : int
+        How many peaks at most.
+    separation_m : float
+        Least distance between two peaks listed [m]; `PEAK_SEPARATION_M` by default.
+
+    Returns
+    -------
+    ndarray of int
+        Up to ``count`` indices, highest score first.
+    """
+    value = np.where(qualifies, score, -np.inf)
+    padded = np.concatenate([[-np.inf], value, [-np.inf]])
+    index = np.flatnonzero(qualifies & (value >= padded[:-2]) & (value >= padded[2:]))
+    chosen = []
+    for k in index[np.argsort(-value[index], kind="stable")]:
+        if len(chosen) == count:
+            break
+        if all(abs(length_m[k] - length_m[j]) >= separation_m for j in chosen):
+            chosen.append(k)
+    return np.array(chosen, dtype=int)
 
 
 def ranked_windows(windows, rank):

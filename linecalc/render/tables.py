@@ -319,6 +319,12 @@ def advice_table(result, top) -> str:
                   "", f"Windows by worst-case voltage on the feeder at {advice.radio_power_w:g} W PEP:",
                   tabulate(_window_rows(advice.windows_by_voltage, top, labels), headers=ADVICE_HEADERS,
                            disable_numparse=True, stralign="right"),
+                  "", f"Lengths where the watts at the antenna peak, {ranked} (the choices inside a window):",
+                  tabulate([[f"{b['length_m']:.2f}", f"{b['power_sum_w']:.1f}",
+                             f"{b['worst_row_power_w']:.1f} ({b['worst_row']})", f"{b['worst_tuner_loss_db']:.2f}",
+                             f"{b['worst_voltage_v']:.0f}"] for b in result.best_lengths(top)],
+                           headers=["length m", "W sum", "worst row W", "worst loss dB", "worst V RMS"],
+                           disable_numparse=True, stralign="right"),
                   "", "best m: the window's length with the most watts; W sum: the watts at the antenna there, "
                       "summed over the rows",
                   "(each row at its own frequency, the band's centre), within about 1 % of budget and compare "

@@ -12,7 +12,7 @@ import numpy as np
 from linecalc.physics.exposure import CAUTIONS
 from linecalc.studies.json_values import finite_or_none
 from linecalc.physics.length_scan import (MAX_EVALUATIONS, AdvisorInputError, LengthAdvice, advise_length,
-                                          find_windows, ranked_windows, windows_by_voltage)
+                                          find_windows, peak_lengths, rank_score, ranked_windows, windows_by_voltage)
 from linecalc.physics.cascade import swr_from_rho
 from linecalc.physics.source import RadioDrive
 from linecalc.studies.budget import radio_warnings, range_warnings
@@ -66,8 +66,21 @@ class AdviceResult:
                 "window_count": len(advice.windows),
                 "windows": [window_dict(w, self.labels) for w in advice.windows[:top]],
                 "windows_by_voltage": [window_dict(w, self.labels) for w in advice.windows_by_voltage[:top]],
+                "best_lengths": self.best_lengths(top),
                 "warnings": list(self.warnings),
                 "cautions": list(CAUTIONS)}
+
+    def best_lengths(self, top: int = TOP_WINDOWS) -> list[dict]:
+        """The ``top`` lengths where the watts at the antenna peak (by the rank), best first, among
+        the lengths that meet the conditions: the choices inside a wide window."""
+        advice = self.advice
+        qualifies = advice.matchable if self.qualifies is None else self.qualifies
+        peaks = peak_lengths(advice.length_m, rank_score(advice.row_power_w, advice.rank), qualifies, top)
+        return [{"length_m": float(advice.length_m[k]), "power_sum_w": float(advice.power_sum_w[k]),
+                 "worst_row_power_w": float(advice.worst_row_power_w[k]),
+                 "worst_row": self.labels[advice.worst_row[k]] if 0 <= advice.worst_row[k] < len(self.labels) else None,
+                 "worst_tuner_loss_db": float(advice.worst_tuner_loss_db[k]),
+                 "worst_voltage_v": float(advice.worst_voltage_v[k])} for k in peaks]
 
     @property
     def columns(self) -> np.ndarray:

@@ -64,8 +64,8 @@ class PairAdviceResult:
         first = self.scans[0]
         labels = first.labels
         document = first.to_dict(top)
-        for key in ("matchable_fraction", "window_count", "windows", "windows_by_voltage", "rows", "warnings",
-                    "cautions"):
+        for key in ("matchable_fraction", "window_count", "windows", "windows_by_voltage", "best_lengths", "rows",
+                    "warnings", "cautions"):
             document.pop(key)
         per_length = []
         for length, scan in zip(self.antenna_length_m, self.scans):

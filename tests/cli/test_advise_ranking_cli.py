@@ -105,3 +105,16 @@ def test_document_states_the_radio_power_and_carries_warnings(cli, narrow, write
     watts = [next(x["power_antenna_w"] for x in row["alternatives"] if x["name"] == name) for row in compared["rows"]]
     assert best["power_sum_w"] == pytest.approx(sum(watts), rel=WATTS_RTOL)
     assert best["power_sum_w"] < doc["windows"][0]["power_sum_w"] * 0.95  # the limit costs watts
+
+
+@pytest.mark.parametrize("rank", ["sum", "worst"])
+def test_best_lengths_start_with_the_best_window_and_stand_apart(rank, cli, narrow):
+    doc = _advise(cli, narrow, "--rank", rank)
+    best = doc["best_lengths"]
+    key = "power_sum_w" if rank == "sum" else "worst_row_power_w"
+    assert best[0]["length_m"] == doc["windows"][0]["best_length_m"]
+    assert best[0][key] == doc["windows"][0][key]
+    assert [b[key] for b in best] == sorted((b[key] for b in best), reverse=True)
+    lengths = np.array([b["length_m"] for b in best])
+    assert np.all(np.abs(lengths[:, None] - lengths[None, :]) + np.eye(len(best)) >= 1.0)  # PEAK_SEPARATION_M
+    assert len(best) <= 20  # --top

@@ -467,3 +467,16 @@ def test_find_windows_with_powers_by_hand():
     assert [w.start_m for w in advisor.ranked_windows(by_sum, "sum")] == [4.0, 0.0]
     with pytest.raises(advisor.AdvisorInputError):
         advisor.rank_score(rows, "mean")
+
+
+def test_peak_lengths_by_hand():
+    # peaks at 1.0 m (5) and 1.2 m (5.5, a ripple 0.2 m from it), 3.0 m (4), and the window
+    # end at 5.0 m (3); 4.0 m does not qualify
+    length = np.arange(11) * 0.5
+    score = np.array([1, 2, 5, 4, 5.5, 3, 4, 2, 9, 1, 3.0])
+    qualifies = np.ones(11, dtype=bool)
+    qualifies[8] = False
+    length[4] = 1.2
+    peaks = advisor.peak_lengths(length, score, qualifies, 8, separation_m=1.0)
+    assert list(peaks) == [4, 6, 10]  # 5.5 at 1.2 m hides 5 at 1.0 m; 4 at 3.0 m; 3 at 5.0 m
+    assert list(advisor.peak_lengths(length, score, qualifies, 2, separation_m=0.1)) == [4, 2]
