@@ -50,6 +50,7 @@ bench: $(VENV)/.installed-test
 	$(BIN)/python bench/bench_startup.py
 	$(BIN)/python bench/bench_wire.py
 	$(BIN)/python bench/bench_uncertainty.py
+	$(BIN)/python bench/bench_pairs.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info linecalc.egg-info

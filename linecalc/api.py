@@ -12,7 +12,7 @@ from pathlib import Path
 from linecalc.errors import InputError, StationError
 from linecalc.io import cable_library, station_file
 from linecalc.physics.swr_curve import DEFAULT_SWEEP_POINTS
-from linecalc.studies import antenna_report, budget, length_advice, measured
+from linecalc.studies import antenna_report, budget, length_advice, measured, pair_advice
 from linecalc.studies import compare as compare_study
 from linecalc.studies import explain as explain_study
 from linecalc.studies import figure_data, line_report, work_size
@@ -199,14 +199,31 @@ def solve_feedpoint(station: Station, *, uncertainty=None) -> measured.Feedpoint
 
 def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=60.0, step_m=0.01,
                  points_per_band=length_advice.POINTS_PER_BAND, max_loss_db=None, allow_large_scan=False,
-                 progress=None) -> length_advice.AdviceResult:
+                 progress=None, rank="sum") -> length_advice.AdviceResult:
     """Which lengths of the feeder (``line``, default the longest) let the tuner match on every
-    band: ``linecalc advise``. Lengths in metres; ``progress(done, total)`` is called as the
+    band, ranked by the watts at the antenna (``rank``: ``"sum"`` over the rows, or ``"worst"``
+    row): ``linecalc advise``. Lengths in metres; ``progress(done, total)`` is called as the
     scan runs. ``to_dict(top)`` equals ``linecalc advise --top N --format json``."""
     with errors_located(station):
         return length_advice.advise_station(station, line, length_from_m, length_to_m, step_m,
                                             points_per_band=points_per_band, allow_large_scan=allow_large_scan,
-                                            progress=progress, max_loss_db=max_loss_db)
+                                            progress=progress, max_loss_db=max_loss_db, rank=rank)
+
+
+def solve_pair_advice(station: Station, *, antenna_from_m, antenna_to_m, antenna_step_m=1.0, line=None,
+                      length_from_m=5.0, length_to_m=60.0, step_m=0.01,
+                      points_per_band=length_advice.POINTS_PER_BAND, max_loss_db=None, allow_large_scan=False,
+                      progress=None, rank="sum", antenna_progress=None, jobs=1) -> pair_advice.PairAdviceResult:
+    """Which wire-antenna length and which feeder length together let the tuner match on every
+    band, ranked by the watts at the antenna: ``linecalc advise --antenna-from A --antenna-to B``.
+    Lengths in metres (the antenna's tip to tip, a vertical's height); ``antenna_progress(done,
+    total, length_m, seconds)`` is called after each antenna length; ``jobs`` processes run the
+    engine. ``to_dict(top)`` equals the command's ``--format json`` document."""
+    with errors_located(station):
+        return pair_advice.advise_pairs(station, line, antenna_from_m, antenna_to_m, antenna_step_m, length_from_m,
+                                        length_to_m, step_m, points_per_band=points_per_band,
+                                        allow_large_scan=allow_large_scan, progress=progress, max_loss_db=max_loss_db,
+                                        rank=rank, antenna_progress=antenna_progress, jobs=jobs)
 
 
 def solve_antenna(station: Station, *, cut_for_hz=None) -> antenna_report.AntennaReport:
@@ -356,4 +373,4 @@ def input_files(station: Station) -> list[Path]:
 
 __all__ = ["ReportProblem", "StationError", "SweepPointsError", "UncertaintyError", "draw_figure", "input_files",
            "list_cables", "load_station", "render_report", "solve_advice", "solve_antenna", "solve_budget",
-           "solve_compare", "solve_feedpoint", "solve_line", "solve_safety"]
+           "solve_compare", "solve_feedpoint", "solve_line", "solve_pair_advice", "solve_safety"]

@@ -77,7 +77,8 @@ def build_parser() -> argparse.ArgumentParser:
     feedpoint.add_argument("--force", action="store_true", help="overwrite an existing --output file")
     _add_uncertainty_options(feedpoint)
 
-    advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band")
+    advise = commands.add_parser("advise", help="scan the feeder length: where can the tuner match on every band, "
+                                   "ranked by the watts at the antenna")
     advise.add_argument("station", help="station file with a tuner on the radio side of its feeder")
     advise.add_argument("--line", metavar="LABEL", help="the feeder to cut (default: the longest line)")
     advise.add_argument("--from", dest="length_from", default="5 m", metavar="LENGTH",
@@ -88,10 +89,22 @@ def build_parser() -> argparse.ArgumentParser:
     advise.add_argument("--points", type=int, default=3, metavar="N",
                         help="points per band, edges included (default: 3, the edges and the centre)")
     advise.add_argument("--allow-large-scan", action="store_true",
-                        help="allow more than 2,000,000 length x frequency evaluations")
+                        help="allow more than 2,000,000 length x frequency evaluations per feeder scan, "
+                             "and more than 200 antenna lengths")
     advise.add_argument("--max-loss", type=float, metavar="DB",
                         help="count only lengths whose worst-case tuner loss is at most DB dB (default: no limit)")
     advise.add_argument("--top", type=int, default=8, metavar="N", help="windows to list (default: 8)")
+    advise.add_argument("--antenna-from", metavar="LENGTH",
+                        help="with --antenna-to: also scan a wire antenna's length from LENGTH (tip to tip, or "
+                             "legs as 2x10m; a vertical's height)")
+    advise.add_argument("--antenna-to", metavar="LENGTH", help="the last antenna length of that scan")
+    advise.add_argument("--antenna-step", default="1 m", metavar="LENGTH",
+                        help="antenna length step (default: 1 m)")
+    advise.add_argument("--jobs", type=int, default=1, metavar="N",
+                        help="worker processes that solve the antenna lengths (default: 1, this process)")
+    advise.add_argument("--rank", choices=("sum", "worst"), default="sum",
+                        help="rank lengths by the watts at the antenna summed over the rows (sum, the default) "
+                             "or in the worst row (worst)")
     advise.add_argument("--format", choices=("table", "json"), default="table", help="output format (default: table)")
 
     plot = commands.add_parser("plot", help="draw a station: SWR across each band, loss budget, Smith chart, "
@@ -441,6 +454,7 @@ def _length_option(name, text):
 def _run_advise(args) -> int:
     from linecalc import api
     from linecalc.physics.length_scan import AdvisorInputError, LengthRangeError, ScanTooLarge, StepError
+    from linecalc.studies.pair_advice import AntennaRangeError, AntennaStepError
     from linecalc.render import json_text, tables
 
     if args.max_loss is not None and not 0 <= args.max_loss < float("inf"):
@@ -449,25 +463,62 @@ def _run_advise(args) -> int:
         raise OptionError(f"--top: at least 1 window, got {args.top}")
     low, high = _length_option("--from", args.length_from), _length_option("--to", args.length_to)
     step = _length_option("--step", args.step)
+    if (args.antenna_from is None) != (args.antenna_to is None):
+        raise OptionError("--antenna-from/--antenna-to: give both, the first and the last antenna length")
+    pairs = args.antenna_from is not None
+    if args.jobs < 1:
+        raise OptionError(f"--jobs: at least 1 process, got {args.jobs}")
+    if pairs:
+        antenna = [_antenna_length_option(name, text) for name, text in
+                   (("--antenna-from", args.antenna_from), ("--antenna-to", args.antenna_to),
+                    ("--antenna-step", args.antenna_step))]
     station = api.load_station(args.station)
+    options = {"line": args.line, "length_from_m": low, "length_to_m": high, "step_m": step,
+               "points_per_band": args.points, "allow_large_scan": args.allow_large_scan,
+               "max_loss_db": args.max_loss, "rank": args.rank}
     try:
-        result = api.solve_advice(station, line=args.line, length_from_m=low, length_to_m=high, step_m=step,
-                                  points_per_band=args.points, allow_large_scan=args.allow_large_scan,
-                                  progress=_Progress("scanning"), max_loss_db=args.max_loss)
-    except LengthRangeError as exc:
-        raise OptionError(f"--from/--to: {exc}") from None
+        if pairs:
+            result = api.solve_pair_advice(station, antenna_from_m=antenna[0], antenna_to_m=antenna[1],
+                                           antenna_step_m=antenna[2], antenna_progress=_antenna_progress,
+                                           jobs=args.jobs, **options)
+        else:
+            result = api.solve_advice(station, progress=_Progress("scanning"), **options)
+    except AntennaStepError as exc:
+        raise OptionError(f"--antenna-step: {exc}") from None
+    except AntennaRangeError as exc:
+        raise OptionError(f"--antenna-from/--antenna-to: {exc}") from None
     except StepError as exc:
         raise OptionError(f"--step: {exc}") from None
+    except LengthRangeError as exc:
+        raise OptionError(f"--from/--to: {exc}") from None
     except ScanTooLarge as exc:
         raise OptionError(f"--step: {exc} (--allow-large-scan)") from None
     except AdvisorInputError as exc:
         raise OptionError(f"--points: {exc}") from None
+    for warning in result.to_dict(args.top)["warnings"]:
+        print(f"warning: {warning}", file=sys.stderr)
     if args.format == "json":
         sys.stdout.write(json_text.to_json(result.to_dict(args.top)))
+    elif pairs:
+        sys.stdout.write(tables.pair_advice_table(result, args.top))
     else:
         sys.stdout.write(tables.advice_table(result, args.top))
     _input_warnings(station)
     return EXIT_OK
+
+
+def _antenna_progress(done, total, length_m, seconds):
+    """One line on stderr per antenna length of a pair scan, with the time it took."""
+    print(f"antenna length {done}/{total}: {length_m:g} m solved and its feeder scanned in {seconds:.2f} s",
+          file=sys.stderr, flush=True)
+
+
+def _antenna_length_option(name, text):
+    """An antenna length on the command line [m]: a length, or legs times count (``2x10m``, ``2 x 10 m``)."""
+    count, sep, leg = text.partition("x")
+    if sep and count.strip().isdigit() and int(count) > 0:
+        return int(count) * _length_option(name, leg.strip())
+    return _length_option(name, text)
 
 
 def _run_plot(args) -> int:

@@ -4,7 +4,9 @@ A feeder (one cable) runs from a tuner to the antenna, with optional fixed two-p
 tuner and the feeder (a balun, a short coax) and between the feeder and the antenna. For every
 length of a scan and every frequency at once, the advisor computes what the tuner sees, whether
 an L or T network can match it to the reference impedance with its parts inside their ranges,
-the least tuner loss, and the largest RMS voltage on the feeder at the radio's power. Lengths are
+the least tuner loss, the largest RMS voltage on the feeder at the radio's power, and the watts
+that reach the antenna (`linecalc.physics.scan_power`: the radio's drive of the matched tuner, the
+tuner's loss, the feeder's and the fixed two-ports' losses). Lengths are
 evaluated in chunks (``chunk_plan``) so that memory stays bounded; no loop runs per frequency.
 
 The tuner test (`linecalc.physics.matching_fast`) is the full design of `linecalc.physics.matching` without its last
@@ -20,6 +22,8 @@ import numpy as np
 
 from linecalc.physics.cascade import walk_to_input
 from linecalc.physics.matching_fast import LEAST_LOSS
+from linecalc.physics.scan_power import antenna_power_per_forward_volt, radio_into_matched_tuner
+from linecalc.physics.source import RadioDrive
 from linecalc.physics.swr_curve import sweep_frequencies_hz
 from linecalc.errors import InputError
 
@@ -37,6 +41,11 @@ BYTES_PER_EVALUATION = {"T": 512, "L": 2048}
 CACHE_CHUNK_EVALUATIONS = 2**15
 # A range that is a whole number of steps up to this relative rounding keeps its end point.
 STEP_ROUNDING = 1e-9
+# How lengths are ranked by the watts at the antenna: their sum over the rows, or the worst row.
+RANKS = ("sum", "worst")
+# Least distance between two listed peak lengths [m]: closer peaks are the ripple of the tuner's
+# least loss from step to step, and a feeder is not cut, nor modelled, closer than that.
+PEAK_SEPARATION_M = 1.0
 
 
 class AdvisorInputError(InputError):
@@ -74,6 +83,9 @@ class LengthWindow:
     best_tuner_loss_db: float
     at_range_start: bool
     at_range_end: bool
+    power_sum_w: float = float("nan")
+    worst_row_power_w: float = float("nan")
+    worst_row: int = -1
 
     @property
     def width_m(self) -> float:
@@ -112,6 +124,13 @@ class LengthAdvice:
     network: str
     chunk_lengths: int
     chunk_peak_bytes: int
+    row_power_w: np.ndarray
+    power_sum_w: np.ndarray
+    worst_row_power_w: np.ndarray
+    worst_row: np.ndarray
+    rank: str
+    radio: RadioDrive
+    tuner_input_power_w: np.ndarray
 
 
 def scan_lengths_m(length_min_m, length_max_m, step_m):
@@ -323,7 +342,7 @@ def feeder_waves(z0_ohm, gamma_per_m, length_m, rho_out, abcd_tuner_to_feeder=()
     return rho_in, voltage_v, current_a
 
 
-def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v):
+def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v, row_power_w=None, rank="sum"):
     """Runs of consecutive matchable lengths as `LengthWindow`, in scan order.
 
     Parameters
@@ -333,27 +352,107 @@ def find_windows(length_m, matchable, worst_tuner_loss_db, worst_voltage_v):
     matchable : ndarray of bool, shape (L,)
     worst_tuner_loss_db, worst_voltage_v : ndarray, shape (L,)
         Per-length worst cases [dB], [V]; finite where ``matchable``.
+    row_power_w : ndarray, shape (L, rows), or None
+        Watts at the antenna per row [W], finite where ``matchable``. With it, a window's best
+        length is the one with the most watts (`rank_score`); without it, the one whose worst
+        tuner loss is least.
+    rank : {'sum', 'worst'}
+        See `rank_score`.
     """
     edges = np.diff(np.concatenate([[0], matchable.astype(np.int8), [0]]))
     starts, ends = np.flatnonzero(edges == 1), np.flatnonzero(edges == -1) - 1
+    score = None if row_power_w is None else rank_score(row_power_w, rank)
     windows = []
     for first, last in zip(starts, ends):
         run = slice(first, last + 1)
-        best = first + int(np.argmin(worst_tuner_loss_db[run]))
+        if score is None:
+            best = first + int(np.argmin(worst_tuner_loss_db[run]))
+            powers = {}
+        else:
+            best = first + int(np.argmax(score[run]))
+            worst_row = int(np.argmin(row_power_w[best]))
+            powers = {"power_sum_w": float(np.sum(row_power_w[best])),
+                      "worst_row_power_w": float(row_power_w[best, worst_row]), "worst_row": worst_row}
         windows.append(LengthWindow(
             start_m=float(length_m[first]), end_m=float(length_m[last]),
             worst_tuner_loss_db=float(np.max(worst_tuner_loss_db[run])),
             worst_voltage_v=float(np.max(worst_voltage_v[run])),
             best_length_m=float(length_m[best]), best_tuner_loss_db=float(worst_tuner_loss_db[best]),
-            at_range_start=bool(first == 0), at_range_end=bool(last == len(length_m) - 1)))
+            at_range_start=bool(first == 0), at_range_end=bool(last == len(length_m) - 1), **powers))
     return tuple(windows)
+
+
+def rank_score(row_power_w, rank):
+    """What a length is ranked by [W]: the watts at the antenna summed over the rows
+    (``rank='sum'``) or those of its worst row (``'worst'``); NaN where a row is NaN.
+
+    Parameters
+    ----------
+    row_power_w : ndarray, shape (..., rows)
+    rank : {'sum', 'worst'}
+    """
+    if rank not in RANKS:
+        raise AdvisorInputError(f"rank is one of {', '.join(RANKS)}, got {rank!r}")
+    return np.sum(row_power_w, axis=-1) if rank == "sum" else np.min(row_power_w, axis=-1)
+
+
+def peak_lengths(length_m, score, qualifies, count, separation_m=PEAK_SEPARATION_M):
+    """Indices of the lengths where ``score`` peaks, best first, at least ``separation_m`` apart.
+
+    A peak is a qualifying length whose score is at least that of each qualifying neighbour (a
+    window's ends count when they are); a peak closer than ``separation_m`` to a better one is
+    left out (the ripple of the tuner's least loss from one step to the next is not a choice).
+
+    Parameters
+    ----------
+    length_m : ndarray, shape (L,)
+        Scanned lengths [m], increasing.
+    score : ndarray, shape (L,)
+        What the lengths are ranked by (`rank_score`) [W], finite where ``qualifies``.
+    qualifies : ndarray of bool, shape (L,)
+    count : int
+        How many peaks at most.
+    separation_m : float
+        Least distance between two peaks listed [m]; `PEAK_SEPARATION_M` by default.
+
+    Returns
+    -------
+    ndarray of int
+        Up to ``count`` indices, highest score first.
+    """
+    value = np.where(qualifies, score, -np.inf)
+    padded = np.concatenate([[-np.inf], value, [-np.inf]])
+    index = np.flatnonzero(qualifies & (value >= padded[:-2]) & (value >= padded[2:]))
+    chosen = []
+    for k in index[np.argsort(-value[index], kind="stable")]:
+        if len(chosen) == count:
+            break
+        if all(abs(length_m[k] - length_m[j]) >= separation_m for j in chosen):
+            chosen.append(k)
+    return np.array(chosen, dtype=int)
+
+
+def ranked_windows(windows, rank):
+    """``windows`` best first: most watts by ``rank`` (`rank_score`), then least worst-case tuner
+    loss; windows without powers by least worst-case tuner loss, then least voltage."""
+    def key(w):
+        power = w.power_sum_w if rank == "sum" else w.worst_row_power_w
+        return (-power if np.isfinite(power) else 0.0, w.worst_tuner_loss_db, w.worst_voltage_v, w.start_m)
+    return tuple(sorted(windows, key=key))
+
+
+def windows_by_voltage(windows):
+    """``windows`` least worst-case feeder voltage first, then least worst-case tuner loss."""
+    return tuple(sorted(windows, key=lambda w: (w.worst_voltage_v, w.worst_tuner_loss_db, w.start_m)))
 
 
 def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm, radio_power_w,
                   length_min_m, length_max_m, step_m, abcd_tuner_to_feeder=(), abcd_feeder_to_antenna=(),
                   max_evaluations=MAX_EVALUATIONS, allow_large_scan=False,
-                  memory_budget_bytes=MEMORY_BUDGET_BYTES, progress=None, max_swr=None) -> LengthAdvice:
-    """Scan the feeder length and find the windows where the tuner matches on every frequency.
+                  memory_budget_bytes=MEMORY_BUDGET_BYTES, progress=None, max_swr=None,
+                  abcd_radio_to_tuner=(), radio_holds="forward", foldback_swr=None, max_power_w=None,
+                  row_columns=None, rank="sum") -> LengthAdvice:
+    """Scan the feeder length: where the tuner matches on every frequency, and the watts at the antenna.
 
     Parameters
     ----------
@@ -370,7 +469,8 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     r0_ohm : float
         Reference impedance the tuner matches to [ohm].
     radio_power_w : float
-        Net power into the tuner's input [W]; voltages scale with its square root.
+        The radio's power setting [W] (see ``radio_holds``); voltages scale with the square root
+        of the power into the tuner, watts at the antenna with that power.
     length_min_m, length_max_m, step_m : float
         The scan (see `scan_lengths_m`) [m].
     abcd_tuner_to_feeder, abcd_feeder_to_antenna : sequence of ndarray, each (nf, 2, 2)
@@ -389,6 +489,18 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
         A radio's built-in tuner: it tunes only loads whose SWR against ``r0_ohm`` is at most
         this (as `linecalc.physics.matching.design_builtin_tuner`); None for a tuner that takes
         any load its parts can match.
+    abcd_radio_to_tuner : sequence of ndarray, each (nf, 2, 2)
+        Fixed chain matrices between the radio and the tuner, from the radio; empty by default.
+    radio_holds, foldback_swr, max_power_w
+        How the radio drives its port (`linecalc.physics.source.radio_drive`): ``'forward'``
+        (the default) or ``'net'``, its reflected-power limit and its largest forward power
+        (None: none).
+    row_columns : array_like of int, shape (rows,), or None
+        For each row of the result, the index into ``frequency_hz`` of the frequency whose watts
+        stand for it; None (the default): every frequency is a row.
+    rank : {'sum', 'worst'}
+        Rank lengths by the watts at the antenna summed over the rows (the default) or by
+        their worst row.
 
     Returns
     -------
@@ -406,7 +518,10 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     fixed two-ports to the tuner's output, whose impedance the tuner must match. With its least
     loss L_t and the power P_t delivered into its output, the radio's power scales the waves by
     sqrt(P_radio / (P_t 10^(L_t/10))); the feeder's largest voltage follows from
-    `feeder_peak_voltage`. The voltage is RMS: its peak is sqrt(2) times as high.
+    `feeder_peak_voltage`. The voltage is RMS: its peak is sqrt(2) times as high. P_radio is
+    the net power the radio puts into the tuner's input (`radio_into_matched_tuner`); the
+    watts at the antenna are that power times 10^(-L_t/10) times the share of the tuner's output
+    that reaches the antenna (`antenna_power_per_forward_volt` over P_t).
 
     References
     ----------
@@ -414,7 +529,12 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     line) and 4.4 (chain matrices).
     """
     f, z_antenna = _check_inputs(frequency_hz, z_antenna_ohm, network, radio_power_w, r0_ohm,
-                                 tuple(abcd_tuner_to_feeder) + tuple(abcd_feeder_to_antenna))
+                                 tuple(abcd_tuner_to_feeder) + tuple(abcd_feeder_to_antenna)
+                                 + tuple(abcd_radio_to_tuner))
+    columns = np.arange(f.size) if row_columns is None else np.asarray(row_columns, dtype=int)
+    if columns.ndim != 1 or columns.size == 0 or np.any((columns < 0) | (columns >= f.size)):
+        raise AdvisorInputError(f"row_columns must be a non-empty 1-D array of indices below {f.size}")
+    rank_score(np.zeros(1), rank)  # an unknown rank is refused before the scan
     _, _, n_lengths = _length_count(length_min_m, length_max_m, step_m)
     evaluations = n_lengths * f.size
     if evaluations > max_evaluations and not allow_large_scan:
@@ -428,6 +548,9 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
     v_out, i_out = walk_to_input(list(abcd_feeder_to_antenna), z_antenna, np.ones_like(z_antenna))
     rho_out = (v_out - z0 * i_out) / (v_out + z0 * i_out)
     least_loss = LEAST_LOSS[network]
+    drive, tuner_input_w = radio_into_matched_tuner(abcd_radio_to_tuner, f, r0_ohm, radio_power_w, radio_holds,
+                                                    foldback_swr, max_power_w)
+    row_power = np.full((length_m.size, columns.size), np.nan)
 
     worst_loss = np.full(length_m.size, np.nan)
     worst_voltage = np.full(length_m.size, np.nan)
@@ -443,8 +566,12 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
             matched = matched & (np.abs((z_t - r0_ohm) / (z_t + r0_ohm)) <= (max_swr - 1) / (max_swr + 1))
         # power into the tuner per 1 V forward wave; a stand-in where unmatched (masked below)
         power_in = np.where(matched, (v_t * i_t.conj()).real * 10 ** (np.where(matched, loss_db, 0.0) / 10), 1.0)
-        voltage = feeder_peak_voltage(gamma, lengths, rho_in, np.sqrt(radio_power_w / power_in))
+        wave_scale2 = tuner_input_w / power_in  # |forward wave at the feeder's input|^2 [V^2]
+        voltage = feeder_peak_voltage(gamma, lengths, rho_in, np.sqrt(wave_scale2))
         rows = slice(start, start + lengths.shape[0])
+        antenna_w = wave_scale2[:, columns] * antenna_power_per_forward_volt(
+            z0[columns], gamma[columns], lengths, v_out[columns], i_out[columns], z_antenna[columns])
+        row_power[rows] = np.where(matched[:, columns], antenna_w, np.nan)
         unmatched[rows] = np.sum(~matched, axis=1)
         some = np.any(matched, axis=1)
         for values, worst, at in ((loss_db, worst_loss, loss_at), (voltage, worst_voltage, voltage_at)):
@@ -456,11 +583,14 @@ def advise_length(cable, frequency_hz, z_antenna_ohm, parts, *, network, r0_ohm,
             progress(rows.stop, length_m.size)
 
     matchable = unmatched == 0
-    windows = find_windows(length_m, matchable, worst_loss, worst_voltage)
+    windows = find_windows(length_m, matchable, worst_loss, worst_voltage, row_power, rank)
+    unmatched_rows = np.isnan(row_power)
+    worst_row = np.where(unmatched_rows.any(axis=1), -1, np.argmin(np.where(unmatched_rows, np.inf, row_power), axis=1))
     return LengthAdvice(
         length_m=length_m, frequency_hz=f, matchable=matchable, unmatched_count=unmatched,
         worst_tuner_loss_db=worst_loss, worst_voltage_v=worst_voltage,
         worst_loss_frequency_hz=loss_at, worst_voltage_frequency_hz=voltage_at,
-        windows=tuple(sorted(windows, key=lambda w: (w.worst_tuner_loss_db, w.worst_voltage_v, w.start_m))),
-        windows_by_voltage=tuple(sorted(windows, key=lambda w: (w.worst_voltage_v, w.worst_tuner_loss_db, w.start_m))),
-        radio_power_w=float(radio_power_w), network=network, chunk_lengths=chunk, chunk_peak_bytes=chunk_bytes)
+        windows=ranked_windows(windows, rank), windows_by_voltage=windows_by_voltage(windows),
+        radio_power_w=float(radio_power_w), network=network, chunk_lengths=chunk, chunk_peak_bytes=chunk_bytes,
+        row_power_w=row_power, power_sum_w=rank_score(row_power, "sum"), worst_row_power_w=rank_score(row_power, "worst"),
+        worst_row=worst_row, rank=rank, radio=drive, tuner_input_power_w=tuner_input_w)

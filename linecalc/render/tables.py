@@ -285,33 +285,66 @@ def sweep_table(sweeps) -> str:
     return "\n".join(lines) + "\n"
 
 
-def _window_rows(windows, top):
-    return [[f"{w.start_m:.2f}{' <' if w.at_range_start else ''}", f"{w.end_m:.2f}{' >' if w.at_range_end else ''}",
-             f"{w.width_m:.2f}", f"{w.best_length_m:.2f}", f"{w.best_tuner_loss_db:.2f}",
-             f"{w.worst_tuner_loss_db:.2f}", f"{w.worst_voltage_v:.0f}"] for w in windows[:top]]
+def _window_rows(windows, top, labels):
+    rows = []
+    for w in windows[:top]:
+        worst = (f"{w.worst_row_power_w:.1f} ({labels[w.worst_row]})" if 0 <= w.worst_row < len(labels)
+                 else f"{w.worst_row_power_w:.1f}")
+        rows.append([f"{w.start_m:.2f}{' <' if w.at_range_start else ''}",
+                     f"{w.end_m:.2f}{' >' if w.at_range_end else ''}", f"{w.width_m:.2f}", f"{w.best_length_m:.2f}",
+                     f"{w.power_sum_w:.1f}", worst, f"{w.best_tuner_loss_db:.2f}", f"{w.worst_tuner_loss_db:.2f}",
+                     f"{w.worst_voltage_v:.0f}"])
+    return rows
+
+
+ADVICE_HEADERS = ["from m", "to m", "width m", "best m", "W sum at best", "worst row W", "loss there dB",
+                  "worst loss dB", "worst V RMS"]
+
+
+def advice_summary(result) -> list[str]:
+    """The first lines of the advice: what was scanned, and how much of it meets the conditions."""
+    advice = result.advice
+    lengths = advice.length_m
+    count = len(advice.windows)
+    limit = sum(w.end_m - w.start_m for w in advice.windows)
+    matched = 100 * advice.matchable.mean()
+    within = (f"; {100 * result.qualifying_fraction:.0f} % also within --max-loss {result.max_loss_db:g} dB"
+              if result.max_loss_db is not None else "")
+    return [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
+            f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
+            f"The tuner matches on every frequency at {matched:.0f} % of the lengths{within}; {count} "
+            f"{'window' if count == 1 else 'windows'} ({limit:.2f} m in all) {'meets' if count == 1 else 'meet'} "
+            "the conditions."]
 
 
 def advice_table(result, top) -> str:
-    """The length windows where the tuner matches on every band, by loss and by line voltage
-    (an `AdviceResult`; ``top`` windows in each list)."""
+    """The length windows where the tuner matches on every band, by the watts at the antenna and
+    by line voltage (an `AdviceResult`; ``top`` windows in each list)."""
     advice = result.advice
-    lengths = advice.length_m
-    share = 100 * advice.matchable.mean()
-    limit = sum(w.end_m - w.start_m for w in advice.windows)
-    headers = ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
-    lines = [f"{result.station}: {lengths.size} feeder lengths from {lengths[0]:g} to {lengths[-1]:g} m, "
-             f"{advice.frequency_hz.size} frequencies (band edges and centres), {advice.network} tuner",
-             f"The tuner matches on every frequency at {share:.0f} % of the lengths; {len(advice.windows)} "
-             f"{'window' if len(advice.windows) == 1 else 'windows'} "
-             f"({limit:.2f} m in all) meet the conditions.",
-             ""]
+    labels = result.labels
+    lines = advice_summary(result) + [""]
     if advice.windows:
-        lines += [f"Windows by worst-case tuner loss (the best {min(top, len(advice.windows))}):",
-                  tabulate(_window_rows(advice.windows, top), headers=headers, disable_numparse=True, stralign="right"),
-                  "", f"Windows by worst-case voltage on the feeder at {advice.radio_power_w:g} W PEP:",
-                  tabulate(_window_rows(advice.windows_by_voltage, top), headers=headers, disable_numparse=True,
+        ranked = ("summed over the rows" if advice.rank == "sum" else "in the worst row (--rank worst)")
+        holds = "forward" if result.radio_holds == "forward" else "net"
+        lines += [f"Windows by the watts at the antenna {ranked}, the best {min(top, len(advice.windows))} "
+                  f"(radio at {advice.radio_power_w:g} W {holds}; line, tuner and radio mismatch losses included):",
+                  tabulate(_window_rows(advice.windows, top, labels), headers=ADVICE_HEADERS, disable_numparse=True,
                            stralign="right"),
-                  "", "< or >: the window reaches the end of the scan and may go on beyond it.",
+                  "", f"Windows by worst-case voltage on the feeder at {advice.radio_power_w:g} W PEP:",
+                  tabulate(_window_rows(advice.windows_by_voltage, top, labels), headers=ADVICE_HEADERS,
+                           disable_numparse=True, stralign="right"),
+                  "", f"Lengths where the watts at the antenna peak, {ranked} (the choices inside a window):",
+                  tabulate([[f"{b['length_m']:.2f}", f"{b['power_sum_w']:.1f}",
+                             f"{b['worst_row_power_w']:.1f} ({b['worst_row']})", f"{b['worst_tuner_loss_db']:.2f}",
+                             f"{b['worst_voltage_v']:.0f}"] for b in result.best_lengths(top)],
+                           headers=["length m", "W sum", "worst row W", "worst loss dB", "worst V RMS"],
+                           disable_numparse=True, stralign="right"),
+                  "", "best m: the window's length with the most watts; W sum: the watts at the antenna there, "
+                      "summed over the rows",
+                  "(each row at its own frequency, the band's centre), within about 1 % of budget and compare "
+                  "--lengths",
+                  "(their tuner design is finer); loss there: the worst-case tuner loss at that length.",
+                  "< or >: the window reaches the end of the scan and may go on beyond it.",
                   "Pick a length inside a wide window: real antennas and lines differ from their models."]
     else:
         lines.append("No length in the range lets the tuner match on every band: widen the range, change the "
@@ -321,6 +354,48 @@ def advice_table(result, top) -> str:
     else:
         lines += ["", "Caution: at high SWR a coax feeder can carry more voltage than its rating; check it with "
                       "linecalc safety."]
+    return "\n".join(lines) + "\n"
+
+
+def pair_advice_table(result, top) -> str:
+    """The antenna-length and feeder-length scan (a `PairAdviceResult`): per antenna length its
+    best feeder window, then the best ``top`` pairs."""
+    first = result.scans[0]
+    labels = first.labels
+    lengths, feeder = result.antenna_length_m, first.advice.length_m
+    ranked = "summed over the rows" if result.rank == "sum" else "in the worst row (--rank worst)"
+    what = "height" if result.shape == "vertical" else "length, tip to tip"
+    lines = [f"{result.station}: {lengths.size} antenna lengths ({what}) from {lengths[0]:g} to {lengths[-1]:g} m, "
+             f"each with {feeder.size} feeder lengths from {feeder[0]:g} to {feeder[-1]:g} m, "
+             f"{first.advice.frequency_hz.size} frequencies, {first.advice.network} tuner", ""]
+    body = []
+    for length, scan in zip(lengths, result.scans):
+        windows = scan.advice.windows
+        best = windows[0] if windows else None
+        body.append([f"{length:.2f}", f"{100 * scan.qualifying_fraction:.0f}", str(len(windows)),
+                     f"{best.best_length_m:.2f}" if best else "-", f"{best.power_sum_w:.1f}" if best else "-",
+                     (f"{best.worst_row_power_w:.1f} ({labels[best.worst_row]})" if best else "-")])
+    lines += [f"Per antenna length, the best feeder length (by the watts at the antenna {ranked}):",
+              tabulate(body, headers=["antenna m", "feeder lengths matching %", "windows", "best feeder m",
+                                      "W sum", "worst row W"], disable_numparse=True, stralign="right"), ""]
+    pairs = result.pairs()
+    if pairs:
+        rows = [[f"{a:.2f}"] + row for (a, _), row in zip(pairs[:top], _window_rows([w for _, w in pairs], top, labels))]
+        lines += [f"The best {min(top, len(pairs))} of {len(pairs)} (antenna length, feeder window) pairs, by the watts "
+                  f"at the antenna {ranked} (radio at {first.advice.radio_power_w:g} W):",
+                  tabulate(rows, headers=["antenna m"] + ADVICE_HEADERS, disable_numparse=True, stralign="right"), "",
+                  "best m: the feeder length with the most watts in the window; W sum: the watts at the antenna "
+                  "there, summed over the rows.",
+                  "The antenna model leaves out the feedline, insulators and nearby objects: cut the wire a little "
+                  "long and pick lengths inside wide windows."]
+    else:
+        lines.append("No pair of lengths in the ranges lets the tuner match on every band: widen the ranges, change "
+                     "the tuner's ranges or drop a band.")
+    lines += ["", "Caution: open-wire feeders carry high voltage at high SWR; keep them out of reach."
+              if first.feeder_kind == "balanced" else
+              "Caution: at high SWR a coax feeder can carry more voltage than its rating; check it with linecalc safety.",
+              "Keep antennas well clear of power lines; lightning protection and grounding follow local code and "
+              "licensed practice."]
     return "\n".join(lines) + "\n"
 
 

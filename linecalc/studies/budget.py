@@ -215,7 +215,7 @@ def _port_swr(solution, feed, frequency_hz, swr_only):
 RADIO_SWR_WARNING = 2.0
 
 
-def _radio_warnings(station, drive: RadioDrive, swr_radio, swr_only):
+def radio_warnings(station, drive: RadioDrive, swr_radio, swr_only):
     """A warning naming every row where the radio sees more than `RADIO_SWR_WARNING`, and every
     row where its reflected-power limit or its largest forward power cuts its power."""
     warnings = []
@@ -239,7 +239,7 @@ def _radio_warnings(station, drive: RadioDrive, swr_radio, swr_only):
     return warnings
 
 
-def _range_warnings(feed, frequency_hz, labels):
+def range_warnings(feed, frequency_hz, labels):
     """A warning for every cable used outside the frequency span of its data."""
     warnings = []
     for element in feed:
@@ -414,8 +414,8 @@ def solve_budget(station: Station) -> BudgetResult:
         radio_forward_w=forward_w, radio_reflected_w=reflected_w,
         radio_mismatch_loss_db=port_mismatch_loss_db(held_w, _phase_mean(drive.net_w, swr_only)),
         radio_holds=station.radio_holds,
-        warnings=tuple(list(station.input_warnings) + _radio_warnings(station, drive, swr_radio, swr_only)
-                       + _range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
+        warnings=tuple(list(station.input_warnings) + radio_warnings(station, drive, swr_radio, swr_only)
+                       + range_warnings(station.feed, f, station.labels) + _balance_warnings(station.feed)
                        + _tuner_warnings(station.feed, designs, station.labels, swr_in, station.tuner_set_at)
                        + _element_notices(station.feed, f, station.labels) + stress_warnings
                        + (safety.gain_warnings(gain_dbi) if not wire_facts else []) + measured_warnings),

@@ -75,8 +75,7 @@ def test_best_window_matches_every_band_when_resolved_one_length_at_a_time(netwo
     # search) inside budget.solve_budget's chain-matrix cascade, one length per solve.
     result = scan(network)
     assert result.windows, "the scenario has windows"
-    best = result.windows[0]
-    assert best.worst_tuner_loss_db == min(w.worst_tuner_loss_db for w in result.windows)
+    best = min(result.windows, key=lambda w: w.worst_tuner_loss_db)  # the tuner's hardest test
     in_window = (result.length_m >= best.start_m) & (result.length_m <= best.end_m)
     assert np.all(result.matchable[in_window])
     worst_losses = []
@@ -310,9 +309,9 @@ def test_find_windows_by_hand():
 
 
 def test_windows_are_ranked_both_ways(advice):
-    losses = [w.worst_tuner_loss_db for w in advice.windows]
+    watts = [w.power_sum_w for w in advice.windows]
     voltages = [w.worst_voltage_v for w in advice.windows_by_voltage]
-    assert losses == sorted(losses) and voltages == sorted(voltages)
+    assert watts == sorted(watts, reverse=True) and voltages == sorted(voltages)
     assert set(advice.windows) == set(advice.windows_by_voltage)
     assert len(advice.windows) >= 3  # the scenario is meant to have a choice
 
@@ -397,3 +396,87 @@ def test_a_builtin_tuner_matches_only_lengths_within_its_swr_limit():
     clear = np.abs(swr - 3.0) > 1e-6  # leave out lengths on the limit itself (rounding)
     np.testing.assert_array_equal(limited.matchable[clear], (free.matchable & (swr <= 3.0))[clear])
     assert limited.matchable.any() and not limited.matchable.all()
+
+
+# --- watts at the antenna --------------------------------------------------------------------
+
+@pytest.mark.parametrize("holds", ["net", "forward"])
+def test_watts_at_the_antenna_agree_with_the_budget_one_length_at_a_time(holds, make_station):
+    # Independent method: the budget's chain-matrix cascade and power flow with the full L
+    # design (whose loss the fast L equals, test_l_least_loss_equals_the_full_design), a 2 m
+    # 50-ohm class jumper between radio and tuner, one length per solve. Tolerance 2e-4: the
+    # budget's tuner matches to SWR 1.02 (matching.MATCHED_SWR), the scan takes the match as
+    # exact; a forward-held radio then differs by at most |rho|^2 < 1e-4 (Pozar, section 2.3).
+    jumper = elements.Line(cables.cable_from_points("test-coax", "50-ohm test coax", "coax", 50.0, 0.66,
+                                                    [1e6, 30e6], [0.005, 0.03]), 2.0)
+    f = FREQUENCY_HZ
+    result = scan("L", abcd_radio_to_tuner=[jumper.abcd(f)], radio_holds=holds, length_max_m=20.0, step_m=0.5)
+    lengths = result.length_m[result.matchable][:3]
+    assert lengths.size, "the scenario has matchable lengths"
+    for length in lengths:
+        solved = budget.solve_budget(make_station([jumper, tuner_element("L"), elements.Line(LADDER, float(length))],
+                                                  f, Z_ANTENNA, power_w=POWER_W, z_ref_ohm=R0, holds=holds))
+        row = result.row_power_w[np.flatnonzero(result.length_m == length)[0]]
+        np.testing.assert_allclose(row, solved.power_antenna_w, rtol=2e-4)
+
+
+def test_radio_into_a_matched_tuner_through_a_series_resistor_by_hand():
+    # Worked by hand: a 10-ohm series resistor before a tuner that presents 50 ohm. The radio
+    # sees 60 ohm: |rho| = 10/110 (Pozar, section 2.3); holding 100 W forward it delivers
+    # 100 (1 - rho^2) W, of which the resistor passes 50/60 (the same current through both).
+    from linecalc.physics.scan_power import radio_into_matched_tuner
+
+    series = np.array([[[1.0, 10.0], [0.0, 1.0]]], dtype=complex)  # chain matrix of a series impedance
+    drive, into_tuner = radio_into_matched_tuner([series], np.array([7e6]), 50.0, 100.0, "forward")
+    rho = 10 / 110
+    assert drive.net_w[0] == pytest.approx(100 * (1 - rho**2), rel=1e-12)
+    assert into_tuner[0] == pytest.approx(100 * (1 - rho**2) * 50 / 60, rel=1e-12)
+
+
+def test_power_per_forward_volt_on_a_matched_lossy_line():
+    # A line ending in its own Z0 carries only the forward wave: |V+|^2 e^(-2 alpha l) / Z0 at
+    # the load (Pozar, section 2.7, the lossy line).
+    from linecalc.physics.scan_power import antenna_power_per_forward_volt
+
+    z0, gamma = np.array([450.0 + 0j]), np.array([0.002 + 0.3j])
+    power = antenna_power_per_forward_volt(z0, gamma, np.array([[10.0]]), z0, np.array([1.0 + 0j]), z0)
+    assert power[0, 0] == pytest.approx(np.exp(-2 * 0.002 * 10) / 450.0, rel=1e-12)
+
+
+def test_rank_worst_puts_the_best_worst_row_first():
+    result = scan(rank="worst")
+    worst = [w.worst_row_power_w for w in result.windows]
+    assert worst == sorted(worst, reverse=True)
+    for w in result.windows:  # each window's best length has the most watts in its worst row
+        run = (result.length_m >= w.start_m) & (result.length_m <= w.end_m)
+        assert w.worst_row_power_w == pytest.approx(np.max(result.worst_row_power_w[run]))
+
+
+def test_find_windows_with_powers_by_hand():
+    length = np.arange(5) * 1.0
+    matchable = np.array([1, 1, 1, 0, 1], dtype=bool)
+    loss = np.array([0.1, 0.2, 0.3, np.nan, 0.1])
+    voltage = np.array([100, 200, 300, np.nan, 50.0])
+    rows = np.array([[50, 50], [90, 20], [60, 45], [np.nan, np.nan], [70, 40.0]])
+    by_sum = advisor.find_windows(length, matchable, loss, voltage, rows, "sum")
+    assert [(w.best_length_m, w.power_sum_w, w.worst_row_power_w, w.worst_row) for w in by_sum] == [
+        (1.0, 110.0, 20.0, 1), (4.0, 110.0, 40.0, 1)]
+    by_worst = advisor.find_windows(length, matchable, loss, voltage, rows, "worst")
+    assert [(w.best_length_m, w.worst_row_power_w) for w in by_worst] == [(0.0, 50.0), (4.0, 40.0)]
+    # equal sums: the lesser worst-case tuner loss ranks first (0.1 dB at 4 m against 0.3 dB)
+    assert [w.start_m for w in advisor.ranked_windows(by_sum, "sum")] == [4.0, 0.0]
+    with pytest.raises(advisor.AdvisorInputError):
+        advisor.rank_score(rows, "mean")
+
+
+def test_peak_lengths_by_hand():
+    # peaks at 1.0 m (5) and 1.2 m (5.5, a ripple 0.2 m from it), 3.0 m (4), and the window
+    # end at 5.0 m (3); 4.0 m does not qualify
+    length = np.arange(11) * 0.5
+    score = np.array([1, 2, 5, 4, 5.5, 3, 4, 2, 9, 1, 3.0])
+    qualifies = np.ones(11, dtype=bool)
+    qualifies[8] = False
+    length[4] = 1.2
+    peaks = advisor.peak_lengths(length, score, qualifies, 8, separation_m=1.0)
+    assert list(peaks) == [4, 6, 10]  # 5.5 at 1.2 m hides 5 at 1.0 m; 4 at 3.0 m; 3 at 5.0 m
+    assert list(advisor.peak_lengths(length, score, qualifies, 2, separation_m=0.1)) == [4, 2]

@@ -8,6 +8,7 @@ physical checks of what the numbers mean name their source.
 """
 from __future__ import annotations
 
+import dataclasses
 import math
 import re
 
@@ -403,10 +404,14 @@ def test_advice_table_lists_windows_both_ways(data_path):
                                    length_to_m=20, step_m=0.5)
     text = tables.advice_table(result, 3)
     assert "21 feeder lengths from 10 to 20 m" in text  # 10 m to 20 m in 0.5 m steps, both ends
-    assert "Windows by worst-case tuner loss" in text and "Windows by worst-case voltage on the feeder" in text
+    assert "Windows by the watts at the antenna summed over the rows" in text
+    assert "Windows by worst-case voltage on the feeder" in text
     headers, rows = parse_table(text, "from m")
-    assert headers == ["from m", "to m", "width m", "best m", "loss there dB", "worst loss dB", "worst V RMS"]
+    assert headers == ["from m", "to m", "width m", "best m", "W sum at best", "worst row W", "loss there dB",
+                       "worst loss dB", "worst V RMS"]
     window = result.advice.windows[0]
+    assert shown(rows[0][4], window.power_sum_w, 1)
+    assert rows[0][5] == f"{window.worst_row_power_w:.1f} ({result.labels[window.worst_row]})"
     start, end = rows[0][0], rows[0][1]
     assert shown(start.rstrip(" <"), window.start_m, 2) and shown(end.rstrip(" >"), window.end_m, 2)
     assert start.endswith(" <") == window.at_range_start and end.endswith(" >") == window.at_range_end
@@ -426,3 +431,31 @@ def test_advice_table_says_so_when_no_length_matches(data_path):
 @pytest.mark.parametrize("render", [tables.budget_table, tables.safety_table])
 def test_tables_end_with_a_line_break(render, plain_result):
     assert render(plain_result).endswith("\n")
+
+
+def test_advice_table_counts_one_window_in_the_singular(data_path):
+    # the orchard doublet's wide-range tuner matches every length of a short scan: one window
+    result = linecalc.solve_advice(linecalc.load_station(data_path("orchard-doublet.yaml")), length_from_m=15,
+                                   length_to_m=16, step_m=0.5)
+    assert len(result.advice.windows) == 1
+    assert "1 window (1.00 m in all) meets the conditions." in tables.advice_table(result, 3)
+
+
+def test_pair_advice_table_lists_antenna_lengths_and_pairs():
+    from linecalc.physics.length_scan import LengthWindow
+    from linecalc.studies.pair_advice import PairAdviceResult
+
+    # Built by hand: two antenna lengths, the first with one window, the second with none.
+    result = linecalc.solve_advice(linecalc.load_station(
+        "name: x\nradio: {power: 100 W}\nfrequencies: [7 MHz]\nantenna: {impedance: {7 MHz: 200+j100}}\n"
+        "feed:\n  - tuner: {network: T}\n  - line: {cable: window-line-450, length: 10 m}\n"),
+        length_from_m=10, length_to_m=11, step_m=0.5)
+    window = result.advice.windows[0]
+    assert isinstance(window, LengthWindow)
+    empty = dataclasses.replace(result, advice=dataclasses.replace(result.advice, windows=(), windows_by_voltage=()))
+    pairs = PairAdviceResult("x", "dipole", np.array([20.0, 21.0]), (result, empty))
+    text = tables.pair_advice_table(pairs, 5)
+    headers, rows = parse_table(text, "antenna m")
+    assert [row[0] for row in rows] == ["20.00", "21.00"] and rows[1][3] == "-"
+    assert "The best 1 of 1 (antenna length, feeder window) pairs" in text
+    assert f"{window.power_sum_w:.1f}" in text and "Keep antennas well clear of power lines" in text
