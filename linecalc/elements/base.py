@@ -7,9 +7,33 @@ studies need only its chain matrix for a frequency array; everything else has a 
 """
 from __future__ import annotations
 
+import re
 from typing import Protocol
 
 import numpy as np
+
+
+def named(kind: str, label: str) -> str:
+    """An element as a sentence names it: its kind, then its label ("tuner shack"), or the label
+    alone where it already says its kind as a word ("tuner 1", "window line"), so that a default
+    label never reads "tuner tuner 1"."""
+    return label if _says_kind(kind, label) else f"{kind} {label}"
+
+
+def column_name(kind: str, label: str) -> str:
+    """An element as a table's column heading names it: ``kind: label`` ("line: coax"), or the
+    label alone where it already says its kind ("shack meter")."""
+    return label if _says_kind(kind, label) else f"{kind}: {label}"
+
+
+def _says_kind(kind, label):
+    return re.search(rf"\b{re.escape(kind)}\b", label, re.IGNORECASE) is not None
+
+
+def named_first(kind: str, label: str) -> str:
+    """`named` at the start of a sentence: its first letter a capital."""
+    text = named(kind, label)
+    return text[:1].upper() + text[1:]
 
 
 class Element(Protocol):

@@ -11,6 +11,7 @@ from linecalc.studies.budget import BudgetResult
 from linecalc.studies import number_text
 from linecalc.physics.cable_heating import AMBIENT_C
 from linecalc.physics.exposure import CAUTIONS
+from linecalc.elements.base import column_name, named_first
 
 SWR_ONLY_NOTE = ("The antenna is given by its SWR only: its phase is unknown, so powers, losses and the "
                  "radio-end SWR are averages over every phase, and the loss range shows least and most.")
@@ -86,7 +87,7 @@ def budget_table(result: BudgetResult) -> str:
         element_rows = [[label] + [f"{_db(e.loss_db[i])} dB / {e.dissipated_w[i]:.1f} W" for e in result.elements]
                         for i, label in enumerate(result.labels)]
         lines += ["", "Loss and heat in each element, radio to antenna:",
-                  tabulate(element_rows, headers=["row", *(f"{e.kind}: {e.label}" for e in result.elements)],
+                  tabulate(element_rows, headers=["row", *(column_name(e.kind, e.label) for e in result.elements)],
                            disable_numparse=True)]
     if meters:
         meter_rows = [[label] + [f"SWR {_swr_text(e.readings['swr'][i])}, fwd {e.readings['forward_w'][i]:.1f} W, "
@@ -96,7 +97,7 @@ def budget_table(result: BudgetResult) -> str:
                   tabulate(meter_rows, headers=["row", *(e.label for e in meters)], disable_numparse=True)]
     for tuner in tuners:
         rows = [[label] + _tuner_cells(tuner, i) for i, label in enumerate(result.labels)]
-        lines += ["", f"Tuner {tuner.label} (parts from the radio side to the antenna side):",
+        lines += ["", f"{named_first('tuner', tuner.label)} (parts from the radio side to the antenna side):",
                   tabulate(rows, headers=["row", "match", "arrangement", "settings"], disable_numparse=True)]
     if "swr_antenna_least" in result.measured:
         m = result.measured
@@ -150,7 +151,7 @@ def safety_table(result: BudgetResult) -> str:
                      f"{r['heat_max_w_per_m'][i]:.2f} / "
                      + (f"{r['heat_rating_w_per_m'][i]:.2f}" if "heat_rating_w_per_m" in r else "no rating")]
                     for i, label in enumerate(result.labels)]
-            lines += [f"Line {e.label} at PEP (positions from its radio end; margins are rating / stress, below 1 "
+            lines += [f"{named_first('line', e.label)} at PEP (positions from its radio end; margins are rating / stress, below 1 "
                       "is over the rating):",
                       tabulate(body, headers=["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m",
                                               "voltage margin", "power margin", "hottest W/m avg / rated"],
@@ -158,10 +159,11 @@ def safety_table(result: BudgetResult) -> str:
                       "hottest W/m: heat per metre at the line's hottest point at average power / what its rating "
                       f"allows there (a library rating is for the cable alone in still air at {AMBIENT_C:g} degC)", ""]
         elif e.kind == "tuner":
-            parts = sorted({key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings if key.endswith("_voltage_peak_v")})
+            parts = list(dict.fromkeys(key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings  # radio side first
+                                        if key.endswith("_voltage_peak_v")))
             body = [[label] + [f"{e.readings[p + '_voltage_peak_v'][i]:.0f} V / {e.readings[p + '_current_rms_a'][i]:.2f} A"
                                for p in parts] for i, label in enumerate(result.labels)]
-            lines += [f"Tuner {e.label} parts at PEP (peak volts across / RMS amperes through):",
+            lines += [f"{named_first('tuner', e.label)} parts at PEP (peak volts across / RMS amperes through):",
                       tabulate(body, headers=["row", *(p.replace("_", " ") for p in parts)], disable_numparse=True), ""]
     x = result.exposure
     if x:

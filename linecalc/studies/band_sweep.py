@@ -15,6 +15,7 @@ from linecalc.studies import work_size
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.station import BudgetError, Station, row_frequencies, rows_outside_antenna_data
 from linecalc.physics.swr_curve import SweepStatistics, sweep_statistics
+from linecalc.elements.base import named
 
 
 @dataclass(frozen=True)
@@ -80,7 +81,7 @@ def _sweep_tuner_warnings(station, result, slices):
                 failed.append(f"{label} at {missed.size} of {part.stop - part.start} points "
                               f"({f.min() / 1e6:.4f} to {f.max() / 1e6:.4f} MHz)")
         if failed:
-            warnings.append(f"tuner {element.label} cannot match across the band on {'; '.join(failed)}: "
+            warnings.append(f"{named('tuner', element.label)} cannot match across the band on {'; '.join(failed)}: "
                             "the radio sees the SWR of its closest setting there")
     return warnings
 

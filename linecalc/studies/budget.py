@@ -21,6 +21,7 @@ from linecalc.studies import work_size
 from linecalc.studies.station import BudgetError, Station
 from linecalc.physics import wire_antenna
 from linecalc.physics.wire_antenna import WireAntenna
+from linecalc.elements.base import named
 
 
 
@@ -159,7 +160,7 @@ def _chain_matrices(feed, frequency_hz, rho_antenna, z_ref_ohm, set_at=None):
         if abcd_list[k] is None:
             z_load = input_impedance(abcd_list[k + 1:], rho_antenna, z_ref_ohm)
             if not np.all(np.isfinite(z_load) & (z_load.real > 0)):
-                raise BudgetError(f"tuner {feed[k].label} sees a load with no resistance (a short, an open or a "
+                raise BudgetError(f"{named('tuner', feed[k].label)} sees a load with no resistance (a short, an open or a "
                                   "pure reactance through a lossless path): there is nothing to match", "antenna")
             designs[k] = feed[k].design(frequency_hz, z_load)
             if set_at is not None and feed[k].held:
@@ -188,11 +189,16 @@ def _tuner_warnings(feed, designs, labels, swr_in_by_element, set_at=None):
                       f"reflection, SWR up to {load_swr.max(axis=0)[i]:.1f} at its output and {worst_in[i]:.2f} at "
                       "its input there)" for i, label in enumerate(labels) if judged[i] and failed_phases[i]]
         else:
+            bypassed = [design.arrangement.flat[i] == "bypass" for i in range(len(labels))]
             failed = [f"{label} (SWR {load_swr[i]:.1f} at its output, {swr_in_by_element[k][i]:.2f} at its input"
-                      f"{', left in bypass' if design.arrangement.flat[i] == 'bypass' else ''})"
+                      f"{', left in bypass' if bypassed[i] else ''})"
                       for i, label in enumerate(labels) if judged[i] and not design.matched[i]]
+            if failed and all(bypassed[i] for i in rows if judged[i] and not design.matched[i]):
+                warnings.append(f"{named('tuner', feed[k].label)} cannot match on {', '.join(failed)}; "
+                                "the radio sees the line through the tuner in bypass there")
+                continue
         if failed:
-            warnings.append(f"tuner {feed[k].label} cannot match on {', '.join(failed)}; "
+            warnings.append(f"{named('tuner', feed[k].label)} cannot match on {', '.join(failed)}; "
                             "solved at its closest setting")
     return warnings
 

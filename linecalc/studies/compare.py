@@ -30,6 +30,7 @@ from linecalc.studies.station import CompareSpec, Station
 from linecalc.elements import Choke, Line, Transformer
 from linecalc.physics.twoports import closed_form_line_loss_db
 from linecalc.errors import InputError
+from linecalc.elements.base import named
 
 # Loss of the balun or choke inserted by a change of line kind [dB]: the station-file defaults.
 INSERTED_BALUN_LOSS_DB = 0.2
@@ -186,14 +187,14 @@ def _with_cable(feed, index, cable, z_ref_ohm):
                 del feed[k]
         if before is not None and before.kind == "tuner":
             feed[index - 1] = dataclasses.replace(before, output_balanced=True)
-            changes.append(f"tuner {before.label} made balanced")
+            changes.append(f"{named('tuner', before.label)} made balanced")
         elif not _offers_balanced(before):
             feed.insert(index, Transformer("balun for " + old.label, 1.0, INSERTED_BALUN_LOSS_DB, z_ref_ohm))
             changes.append(f"1:1 balun added at the radio end of {old.label}")
         return tuple(feed), tuple(changes)
     if before is not None and before.kind == "tuner":
         feed[index - 1] = dataclasses.replace(before, output_balanced=False)
-        changes.append(f"tuner {before.label} made unbalanced")
+        changes.append(f"{named('tuner', before.label)} made unbalanced")
     feed.insert(index + 1, Choke("choke after " + old.label, INSERTED_CHOKE_LOSS_DB, z_ref_ohm))
     changes.append(f"1:1 choke added between {old.label} and the antenna")
     return tuple(feed), tuple(changes)
@@ -226,7 +227,7 @@ def tuner_alternatives(station: Station, main_label=None) -> list[Alternative]:
     kept = tuple(e for e in rest[index + 1:end] if e.kind == "choke")
     meters = tuple(e for e in rest[index + 1:end] if e.kind != "choke")
     at_antenna = tuple(rest[:index + 1]) + kept + (tuner,) + meters + tuple(rest[end:])
-    changes = [f"tuner {tuner.label} moved to the antenna end of {rest[index].label}"]
+    changes = [f"{named('tuner', tuner.label)} moved to the antenna end of {rest[index].label}"]
     changes += [f"choke {c.label} kept between {rest[index].label} and the tuner" for c in kept]
     if rest[index].cable.kind == "balanced" and not _offers_balanced(rest[index - 1] if index > 0 else None):
         # the line loses its balanced tuner: feed it through a 1:1 balun, as the station would need
@@ -234,7 +235,7 @@ def tuner_alternatives(station: Station, main_label=None) -> list[Alternative]:
         at_antenna = tuple(rest[:index]) + (balun, rest[index], *kept, tuner, *meters) + tuple(rest[end:])
         changes.append(f"1:1 balun added at the radio end of {rest[index].label}")
     return [Alternative(f"tuner at the radio end of {rest[index].label}", dataclasses.replace(station, feed=at_radio),
-                        changes=(f"tuner {tuner.label} at the radio end of {rest[index].label}",)),
+                        changes=(f"{named('tuner', tuner.label)} at the radio end of {rest[index].label}",)),
             Alternative(f"tuner at the antenna end of {rest[index].label}", dataclasses.replace(station, feed=at_antenna),
                         changes=tuple(changes))]
 

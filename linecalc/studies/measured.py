@@ -13,6 +13,7 @@ from linecalc.physics import deembed
 from linecalc.physics.loads import ImpedanceTable, MeasuredAntenna, rho_from_impedance
 from linecalc.studies.json_values import finite_or_none
 from linecalc.studies.station import BudgetError, Station
+from linecalc.elements.base import named
 
 # Phases sampled for an SWR-only antenna: the trapezoid rule on a smooth periodic function
 # converges geometrically, so 180 points (2 degree steps) average to rounding and bound the
@@ -33,7 +34,7 @@ def _measurement_path(station, frequency_hz):
     path = station.feed[station.antenna.node:]
     for element in path:
         if element.adapts_to_load:
-            raise BudgetError(f"tuner {element.label} sits between the measuring point and the antenna: its "
+            raise BudgetError(f"{named('tuner', element.label)} sits between the measuring point and the antenna: its "
                               "setting depends on the antenna, so the measurement cannot be moved through it",
                               "antenna")
     return [element.abcd(frequency_hz) for element in path]

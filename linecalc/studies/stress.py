@@ -11,6 +11,7 @@ import numpy as np
 from linecalc.physics.cable_heating import AMBIENT_C
 from linecalc.physics.exposure import PLAUSIBLE_GAIN_DBI, average_power_w, exposure_distances
 from linecalc.physics.voltage import PEAK_PER_RMS, line_extremes_in_path, line_heat_in_path, tuner_part_stress
+from linecalc.elements.base import named
 
 # The span of the exposure limit tables [Hz] (47 CFR 1.1310 Table 1 starts at 0.3 MHz).
 EXPOSURE_SPAN_HZ = (0.3e6, 100e9)
@@ -109,12 +110,12 @@ def tuner_stress(design, voltage_in_v, current_in_a, tuner, labels, swr_only):
         if kind == "capacitor" and tuner.max_capacitor_voltage_v is not None:
             over = [f"{label} ({v:.0f} V peak)" for label, v in zip(labels, peak_v) if v > tuner.max_capacitor_voltage_v]
             if over:
-                warnings.append(f"tuner {tuner.label}: {name.replace('_', ' ')} above its "
+                warnings.append(f"{named('tuner', tuner.label)}: {name.replace('_', ' ')} above its "
                                 f"{tuner.max_capacitor_voltage_v:.0f} V peak rating on {', '.join(over)}")
         if kind == "inductor" and tuner.max_inductor_current_a is not None:
             over = [f"{label} ({a:.1f} A RMS)" for label, a in zip(labels, current) if a > tuner.max_inductor_current_a]
             if over:
-                warnings.append(f"tuner {tuner.label}: {name.replace('_', ' ')} above its "
+                warnings.append(f"{named('tuner', tuner.label)}: {name.replace('_', ' ')} above its "
                                 f"{tuner.max_inductor_current_a:.1f} A RMS rating on {', '.join(over)}")
     return readings, warnings
 

@@ -23,6 +23,7 @@ from linecalc.physics.wire_antenna import WireAntenna
 from linecalc.studies import work_size
 from linecalc.studies.json_values import finite_or_none
 from linecalc.studies.station import BudgetError, Station
+from linecalc.elements.base import named
 
 # The spread reported: the central 95 % of the draws (2.5th to 97.5th percentile) and the median.
 COVERAGE = 0.95
@@ -96,7 +97,7 @@ def _check(station, tolerances, what="the rows"):
     if isinstance(station.antenna, MeasuredAntenna):
         for element in station.feed[station.antenna.node:]:
             if element.adapts_to_load:
-                raise BudgetError(f"tuner {element.label} sits between the measuring point and the antenna: the "
+                raise BudgetError(f"{named('tuner', element.label)} sits between the measuring point and the antenna: the "
                                   "measurement cannot be moved through it", "antenna")
 
 
@@ -160,7 +161,7 @@ def _solve_chunk(station, f, drawn, z_antenna, budget):
         if abcd_list[k] is None:
             z_load = input_impedance(abcd_list[k + 1:], rho_antenna, z_ref)
             if not np.all(np.isfinite(z_load) & (z_load.real > 0)):
-                raise BudgetError(f"tuner {feed[k].label} sees a load with no resistance in some draws: there is "
+                raise BudgetError(f"{named('tuner', feed[k].label)} sees a load with no resistance in some draws: there is "
                                   "nothing to match", "antenna")
             abcd_list[k] = feed[k].design(f, z_load).abcd
     try:

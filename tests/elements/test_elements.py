@@ -786,3 +786,18 @@ def test_choke_and_balun_winding_keys_and_defaults():
             '  - balun: {ratio: "4:1"}\n  - balun: {ratio: "1:4", length: 40 cm, velocity_factor: 0.75}\n')
     feed = parse_station_text(text).feed
     assert [(e.length_m, e.velocity_factor) for e in feed] == [(1.5, 0.66), (3.0, 0.8), (1.0, 0.7), (0.4, 0.75)]
+
+
+@pytest.mark.parametrize("kind, label, sentence, column", [
+    ("tuner", "tuner 1", "tuner 1", "tuner 1"),            # a default label says its kind already
+    ("tuner", "shack", "tuner shack", "tuner: shack"),
+    ("line", "window line", "window line", "window line"),
+    ("line", "coax", "line coax", "line: coax"),
+    ("meter", "Shack Meter", "Shack Meter", "Shack Meter"),  # as a word, in any case
+    ("line", "linear feed", "line linear feed", "line: linear feed"),  # not inside another word
+])
+def test_an_element_is_named_once_by_its_kind(kind, label, sentence, column):
+    from linecalc.elements.base import column_name, named, named_first
+    assert named(kind, label) == sentence
+    assert named_first(kind, label) == sentence[0].upper() + sentence[1:]
+    assert column_name(kind, label) == column

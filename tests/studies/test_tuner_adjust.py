@@ -125,3 +125,12 @@ feed:
     text = "\n".join(result.warnings)
     assert "phases of the antenna's unknown reflection" in text
     assert "1.00 at its input" not in text
+
+
+def test_a_builtin_tuner_left_in_bypass_is_not_said_to_be_at_its_closest_setting():
+    # The loads here lie far past 1.2:1: a built-in tuner that gives up goes to bypass (README,
+    # Tuners), so the warning says the radio sees the line through it, not a "closest setting".
+    result = linecalc.solve_budget(_station("{network: builtin, max_swr: 1.2}"))
+    warning, = [w for w in result.warnings if "cannot match" in w]
+    assert warning.startswith("tuner 1 cannot match on 80m (")  # the default label, named once
+    assert "left in bypass" in warning and "closest setting" not in warning
