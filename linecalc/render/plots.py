@@ -256,7 +256,8 @@ def loss_shares(result) -> LossShares:
     Returns
     -------
     LossShares
-        Only categories with an element in the feed. In dB: the lines' matched loss; the lines'
+        Only categories with an element in the feed that loses something (a lossless meter
+        adds none). In dB: the lines' matched loss; the lines'
         loss beyond it (their standing waves); the tuners' loss; each part's loss in place. In
         watts: a line of loss L and matched loss ML fed P_in heats P_in (10^(-(L - ML)/10) -
         10^(-L/10)) when matched, which is P_out (10^(ML/10) - 1) written so that it stays
@@ -287,8 +288,10 @@ def loss_shares(result) -> LossShares:
                 element.dissipated_w)
         power_in = power_in - element.dissipated_w
     first, last = ("line matched loss", "line mismatch loss", "tuner loss"), ("other parts",)
-    names = tuple(sorted(categories, key=lambda n: (first.index(n) if n in first else 3 + (n in last),
-                                                    categories[n])))
+    # parts that lose nothing at all (a meter, taken as lossless) add a legend entry but no bar
+    present = [n for n in categories if np.any(loss_db[n] != 0) or np.any(heat_w[n] != 0)]
+    names = tuple(sorted(present, key=lambda n: (first.index(n) if n in first else 3 + (n in last),
+                                                 categories[n])))
     if not names:
         return LossShares((), np.zeros((0, rows)), np.zeros((0, rows)))
     return LossShares(names, np.array([loss_db[n] for n in names]), np.array([heat_w[n] for n in names]))

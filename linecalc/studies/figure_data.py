@@ -10,7 +10,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from linecalc.errors import InputError
-from linecalc.physics.voltage import line_profile_from_both_ends, reflection_along_line
+from linecalc.physics.voltage import line_profile_from_both_ends, profile_samples, reflection_along_line
 from linecalc.studies.band_sweep import solve_band_sweeps
 from linecalc.studies.budget import BudgetResult, solve_budget
 from linecalc.studies.compare import CompareError, alternatives_from_spec, compare, main_line_index
@@ -18,9 +18,6 @@ from linecalc.studies.station import BudgetError, Station
 
 # Positions along the line for the voltage plot: enough to draw a smooth standing wave.
 VOLTAGE_POINTS = 801
-# Positions along each line for its path on the Smith chart (a turn of the spiral is half a
-# wavelength: 18 m of window line on 10 m is about 2 turns, drawn with some 90 points each).
-SMITH_PATH_POINTS = 181
 # What a row's tuners did (`tuner_states`): "" no tuner, or all matched with a network in circuit.
 TUNER_BYPASSED, TUNER_UNMATCHED = "bypassed", "cannot match"
 KINDS = ("swr", "budget", "smith", "voltage", "compare")
@@ -136,7 +133,8 @@ def figure_data(kind: str, station: Station, *, sweep_points: int, line_label: s
 
 def _smith_points(station, sweep_points) -> SmithPoints:
     """The chart normalised to the nominal impedance of the line next to the antenna (the
-    station's reference impedance if no line reaches it), with every line's path."""
+    station's reference impedance if no line reaches it), with every line's path (a turn of its
+    spiral is half a wavelength, sampled as `profile_samples` samples a standing wave)."""
     result = solve_budget(station)
     if result.z_antenna_ohm is None:
         raise PlotProblem("a Smith chart needs impedances: an antenna given by SWR alone has no phase")
@@ -149,7 +147,7 @@ def _smith_points(station, sweep_points) -> SmithPoints:
         line = station.feed[k]
         z0, gamma = line.cable.constants(result.frequency_hz)
         _, rho = reflection_along_line(z0, gamma, float(line.length_m), solution.state_v[k + 1],
-                                       solution.state_i[k + 1], z_ref, SMITH_PATH_POINTS)
+                                       solution.state_i[k + 1], z_ref, profile_samples(gamma, line.length_m))
         paths.append((line.label, rho))
     sweep = {}
     if sweep_points is not None:

@@ -224,6 +224,11 @@ def test_budget_legend_holds_only_parts_that_exist(tmp_path, data_path):
     figure = draw("budget", linecalc.load_station(data_path("hilltop-dipole.yaml")), tmp_path)
     legend = [t.get_text() for t in figure.legends[0].get_texts()]
     assert "tuner loss" not in legend and "line matched loss" in legend
+    # a meter (lossless) is in the feed but loses nothing: no "other parts" entry for it
+    metered = CHOKED.replace("  - connector: {label: plugs, count: 2, loss: 0.05 dB}\n", "  - meter: {label: meter}\n")
+    metered = metered.replace("  - choke: {label: burnt choke, loss: 9.9 dB}\n", "")
+    figure = draw("budget", station(metered), tmp_path)
+    assert [t.get_text() for t in figure.legends[0].get_texts()] == ["line matched loss", "line mismatch loss"]
 
 
 def test_a_lossy_choke_has_a_bar_of_its_own_and_power_labels_are_si(tmp_path):
