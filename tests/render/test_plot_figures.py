@@ -131,6 +131,14 @@ def test_smith_with_a_sweep_draws_each_band_across_it(tmp_path, data_path):
     assert not [line for line in plain.axes[0].lines if (line.get_gid() or "").startswith("sweep-")]
 
 
+def test_smith_sweep_option_reaches_the_chart(cli, data_path, tmp_path):
+    station_path = data_path("hilltop-dipole.yaml")
+    assert cli("plot", station_path, "smith", tmp_path / "a.svg")[0] == 0
+    assert cli("plot", station_path, "smith", tmp_path / "b.svg", "--sweep", "5")[0] == 0
+    plain, swept = (tmp_path / "a.svg").read_text(), (tmp_path / "b.svg").read_text()
+    assert "sweep-antenna-0" in swept and "sweep-antenna-0" not in plain  # the traces' gid in the SVG
+
+
 def test_smith_path_runs_along_the_line_from_antenna_to_radio_end(tmp_path, data_path):
     st = linecalc.load_station(data_path("orchard-doublet.yaml"))
     figure = draw("smith", st, tmp_path)
