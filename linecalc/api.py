@@ -251,9 +251,15 @@ def list_cables(frequency_hz=LISTING_FREQUENCIES_HZ) -> CableListing:
     return cable_listing(cable_library.load_library().values(), frequency_hz)
 
 
-def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP_POINTS, line=None, force=False):
+def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP_POINTS, line=None, force=False,
+                cables=(), tuner_positions=False, main_line=None, lengths_m=(), sweep_smith=False):
     """Draw figure ``kind`` (swr, budget, smith, voltage, compare) of the station into ``path``
-    (.png or .svg, written atomically): ``linecalc plot``. Returns the matplotlib Figure."""
+    (.png or .svg, written atomically): ``linecalc plot``. Returns the matplotlib Figure.
+
+    ``line`` is the line whose voltage is drawn (default the longest), and for compare the line
+    whose length ``lengths_m`` varies; ``cables``, ``tuner_positions``, ``main_line`` and
+    ``lengths_m`` extend the station's ``compare:`` key as in `solve_compare`. ``sweep_smith``
+    adds each band swept at ``sweep_points`` to the Smith chart (the command's ``--sweep N``)."""
     from linecalc.render import plots
 
     from linecalc.io import atomic
@@ -266,8 +272,13 @@ def draw_figure(kind: str, station: Station, path, *, sweep_points=DEFAULT_SWEEP
         raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it") from None
     if kind in ("swr", "smith"):
         _check_sweep_points(station, sweep_points)
+    spec = None
+    if kind == "compare":
+        spec = _compare_spec(station.compare, cables, tuner_positions, main_line, line, lengths_m)
     with errors_located(station):
-        data = figure_data.figure_data(kind, station, sweep_points=sweep_points, line_label=line)
+        data = figure_data.figure_data(kind, station, sweep_points=sweep_points,
+                                       line_label=None if kind == "compare" else line, compare_spec=spec,
+                                       sweep_smith=sweep_smith)
     return plots.draw(data, path, force=force)
 
 

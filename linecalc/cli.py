@@ -112,9 +112,19 @@ def build_parser() -> argparse.ArgumentParser:
     plot.add_argument("station", help="station file (YAML)")
     plot.add_argument("kind", choices=("swr", "budget", "smith", "voltage", "compare"), help="what to draw")
     plot.add_argument("output", metavar="FILE", help="the image to write, .png or .svg")
-    plot.add_argument("--sweep", type=int, default=DEFAULT_SWEEP_POINTS, metavar="N",
-                      help=f"points per band for swr and smith (default {DEFAULT_SWEEP_POINTS})")
-    plot.add_argument("--line", metavar="LABEL", help="the line for voltage (default: the longest)")
+    plot.add_argument("--sweep", type=int, metavar="N",
+                      help=f"points per band for swr (default {DEFAULT_SWEEP_POINTS}); smith draws each band "
+                      "swept at N points only when given")
+    plot.add_argument("--line", metavar="LABEL", help="the line for voltage (default: the longest); for compare, "
+                      "the line whose length --lengths varies")
+    plot.add_argument("--cable", action="append", default=[], metavar="ID",
+                      help="compare: a library cable for the main line (repeat for more)")
+    plot.add_argument("--tuner-positions", action="store_true",
+                      help="compare: the tuner at the radio end and at the antenna end of the main line")
+    plot.add_argument("--main-line", metavar="LABEL", help="compare: the line to replace or move around "
+                      "(default: the longest)")
+    plot.add_argument("--lengths", nargs="+", metavar="LENGTH", help="compare: lengths to try for the main line "
+                      "(or --line), each with its unit")
     plot.add_argument("--force", action="store_true", help="overwrite an existing image")
 
     compare = commands.add_parser("compare", help="rank alternatives band by band: other feedlines, tuner "
@@ -525,15 +535,22 @@ def _run_plot(args) -> int:
     from linecalc import api
     from linecalc.studies.figure_data import PlotProblem
 
-    if args.sweep < 2:
+    if args.sweep is not None and args.sweep < 2:
         raise OptionError(f"--sweep: at least 2 points per band, got {args.sweep}")
+    lengths_m = tuple(_length_option("--lengths", text) for text in args.lengths or ())
     station = api.load_station(args.station)
     try:
-        api.draw_figure(args.kind, station, args.output, sweep_points=args.sweep, line=args.line, force=args.force)
+        api.draw_figure(args.kind, station, args.output, sweep_points=args.sweep or DEFAULT_SWEEP_POINTS,
+                        line=args.line, force=args.force, cables=args.cable, tuner_positions=args.tuner_positions,
+                        main_line=args.main_line, lengths_m=lengths_m, sweep_smith=args.sweep is not None)
     except PlotProblem as exc:
         raise OptionError(str(exc)) from None
     except api.SweepPointsError as exc:
         raise OptionError(f"--sweep: {exc}") from None
+    except api.UnknownCableError as exc:
+        raise OptionError(f"--cable: {exc}") from None
+    except api.LengthError as exc:
+        raise OptionError(f"--lengths: {exc}") from None
     print(f"wrote {args.output}", file=sys.stderr)
     _input_warnings(station)
     return EXIT_OK

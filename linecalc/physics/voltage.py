@@ -151,6 +151,96 @@ def line_profile(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a, sa
     return LineProfile(position, np.abs(v), np.abs(i))
 
 
+def line_profile_from_both_ends(z0_ohm, gamma_per_m, length_m, voltage_in_v, current_in_a, voltage_out_v,
+                                current_out_a, samples) -> LineProfile:
+    """RMS voltage and current along a line from the phasors at both of its ends, for any length.
+
+    Parameters
+    ----------
+    z0_ohm, gamma_per_m : array_like of complex, (nf,)
+        Characteristic impedance [ohm] and propagation constant [1/m].
+    length_m : float
+        Length [m].
+    voltage_in_v, current_in_a, voltage_out_v, current_out_a : array_like of complex, (nf,)
+        RMS phasors at the input (radio end) and at the output (antenna end) [V], [A], toward
+        the load (the solver's nodes k and k + 1 for element k).
+    samples : int
+        Number of points, ends included (at least 2).
+
+    Returns
+    -------
+    LineProfile
+        ``position_m`` (samples,) from the radio end; |V| and |I| (samples, nf).
+
+    Notes
+    -----
+    The forward wave is taken at the input and the reflected wave at the output, so that both
+    exponentials decay: V(x) = A e^(-gamma x) + B e^(-gamma (l - x)) and
+    I(x) = (A e^(-gamma x) - B e^(-gamma (l - x))) / Z0 with A = (V_in + Z0 I_in) / 2 and
+    B = (V_out - Z0 I_out) / 2. It stays finite on a line thousands of dB long, where
+    `line_profile` (both waves from the output) overflows.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.1 (the travelling-wave solution of the
+    lossy line, V(z) = V+ e^(-gamma z) + V- e^(gamma z)).
+    """
+    n = int(samples)
+    if n < 2:
+        raise ValueError(f"samples must be at least 2 (both ends), got {n}")
+    z0_ohm, gamma_per_m = np.asarray(z0_ohm, dtype=complex), np.asarray(gamma_per_m, dtype=complex)
+    position = np.linspace(0.0, float(length_m), n)
+    forward = (np.asarray(voltage_in_v) + z0_ohm * np.asarray(current_in_a)) / 2 * np.exp(-gamma_per_m * position[:, None])
+    reflected = ((np.asarray(voltage_out_v) - z0_ohm * np.asarray(current_out_a)) / 2
+                 * np.exp(-gamma_per_m * (float(length_m) - position[:, None])))
+    return LineProfile(position, np.abs(forward + reflected), np.abs((forward - reflected) / z0_ohm))
+
+
+def reflection_along_line(z0_ohm, gamma_per_m, length_m, voltage_out_v, current_out_a, z_ref_ohm, samples):
+    """The reflection coefficient against ``z_ref_ohm`` seen looking toward the load from each
+    point of a line: its path on a Smith chart from the antenna end to the radio end.
+
+    Parameters
+    ----------
+    z0_ohm, gamma_per_m : array_like of complex, (nf,)
+        Characteristic impedance [ohm] and propagation constant [1/m].
+    length_m : float
+        Length [m].
+    voltage_out_v, current_out_a : array_like of complex, (nf,)
+        Phasors at the output (antenna end), toward the load, in any common scale (only their
+        ratio counts: the solver's ``state_v`` and ``state_i`` serve).
+    z_ref_ohm : float
+        Reference impedance of the chart [ohm].
+    samples : int
+        Number of points, ends included (at least 2).
+
+    Returns
+    -------
+    distance_m : ndarray, (samples,)
+        Distance from the output [m], 0 (the load) to ``length_m`` (the input).
+    rho : ndarray of complex, (samples, nf)
+        (Z(d) - Z_ref) / (Z(d) + Z_ref) with Z(d) = Z0 (1 + G(d)) / (1 - G(d)) and
+        G(d) = G_L e^(-2 gamma d), G_L = (V - Z0 I) / (V + Z0 I) at the output.
+
+    References
+    ----------
+    Pozar, Microwave Engineering, 4th ed., section 2.3 (Gamma(l) = Gamma_L e^(-2 j beta l) and
+    the input impedance of a terminated line) and section 2.7 (the lossy line, gamma for j beta).
+    """
+    n = int(samples)
+    if n < 2:
+        raise ValueError(f"samples must be at least 2 (both ends), got {n}")
+    z0_ohm, gamma_per_m = np.asarray(z0_ohm, dtype=complex), np.asarray(gamma_per_m, dtype=complex)
+    v, i = np.asarray(voltage_out_v, dtype=complex), np.asarray(current_out_a, dtype=complex)
+    gamma_load = (v - z0_ohm * i) / (v + z0_ohm * i)
+    distance = np.linspace(0.0, float(length_m), n)
+    reflection = gamma_load * np.exp(-2 * gamma_per_m * distance[:, None])
+    # rho from G without forming Z (finite at an open end, G = 1):
+    # rho = (Z0 (1 + G) - Zr (1 - G)) / (Z0 (1 + G) + Zr (1 - G))
+    return distance, ((z0_ohm * (1 + reflection) - z_ref_ohm * (1 - reflection))
+                      / (z0_ohm * (1 + reflection) + z_ref_ohm * (1 - reflection)))
+
+
 def _end_windows(gamma_per_m, length_m):
     """Distances from the output d (..., 2 WINDOW_SAMPLES, nf): the half wavelength (or the whole
     line, if shorter) at the antenna end, increasing, then the one at the radio end, decreasing."""

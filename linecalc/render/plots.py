@@ -16,6 +16,8 @@ from pathlib import Path
 import numpy as np
 from linecalc.errors import InputError
 from linecalc.io import atomic
+from linecalc.render import smith_chart
+from linecalc.render.smith_chart import SMITH_R, SMITH_X  # noqa: F401 (the chart's grid, for callers)
 from linecalc.studies import figure_data
 
 FIGURE_SIZE_IN = (10.0, 6.0)
@@ -28,11 +30,6 @@ _RC = {"font.size": 11, "axes.titlesize": 12, "axes.labelsize": 11, "legend.font
 # The palette's yellow is left out: too pale on white.
 _COLOURS = ("#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#000000",
             "#d62728", "#9467bd", "#8c564b", "#7f7f7f", "#bcbd22", "#17becf")
-# Smith-chart grid: constant resistance circles and constant reactance arcs (normalised).
-SMITH_R = (0.2, 0.5, 1.0, 2.0, 5.0)  # r = 0 is the rim
-SMITH_X = (0.2, 0.5, 1.0, 2.0, 5.0)
-# Smallest angle between two point labels around a Smith chart [rad] (about 9 degrees).
-SMITH_LABEL_GAP = 0.16
 # Bottom of the SWR axis: 1 is the least SWR, the axis starts just below it.
 SWR_AXIS_BOTTOM = 0.93
 VOLTAGE_CAUTION = ("RMS volts; peaks are 1.41 times higher. Lines at high SWR carry voltages that arc, burn "
@@ -100,76 +97,135 @@ def _arrays(name, values, count):
     return values
 
 
-def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, tuner_set_hz=None, force=False):
-    """SWR across each band, at the antenna and at the radio, one panel per band.
+def _swr_ticks(top):
+    """A tick locator for a log SWR axis from SWR_AXIS_BOTTOM to ``top``: 1 and the top always,
+    then 2, 3, 5, 10, ..., 500, 1.5 in that order of preference, each only where its label stays at
+    least 1.6 lines of tick text from every other (measured on the drawn axis, so small panels
+    get fewer ticks)."""
+    from matplotlib.ticker import Locator
+
+    preference = (2, 3, 5, 10, 20, 50, 100, 200, 500, 1.5)
+
+    class SwrLocator(Locator):
+        def __call__(self):
+            low, high = self.axis.get_view_interval()
+            pixels = self.axis.axes.get_window_extent().height
+            size_pt = _RC["ytick.labelsize"]
+            gap = 1.6 * size_pt * self.axis.get_figure(root=True).dpi / 72 / max(pixels, 1.0) * np.log(high / low)
+            kept = [t for t in (1.0, top) if low <= t <= high]
+            for t in preference:
+                if low <= t <= high and all(abs(np.log(t / k)) >= gap for k in kept):
+                    kept.append(t)
+            return sorted(kept)
+
+    return SwrLocator()
+
+
+def plot_swr(path, labels, frequency_hz, swr_antenna, swr_radio, *, tuner_set_hz=None, tuner_state=None,
+             force=False):
+    """SWR across each band, at the antenna and at the radio, one panel per swept band; the rows
+    of a single frequency share one last panel, as points.
 
     Parameters
     ----------
     path : str or Path
         Output file, .png or .svg.
     labels : sequence of str
-        Band names, one per panel.
+        Band names, one per row.
     frequency_hz, swr_antenna, swr_radio : sequence of array_like
-        Per band: frequencies [Hz] and the SWR at each end [1] (inf for a total reflection,
-        which is not drawn).
+        Per row: frequencies [Hz] and the SWR at each end [1] (inf for a total reflection,
+        which is not drawn). A row of one frequency is drawn as a point.
     tuner_set_hz : sequence of (float or None), optional
-        Per band, where a tuner held across the band was set [Hz] (a dotted vertical line), or None.
+        Per row, where a tuner held across the band was set [Hz] (a dotted vertical line), or None.
+    tuner_state : sequence of array_like of str, optional
+        Per row and frequency, `linecalc.studies.figure_data.tuner_states`: the points where a
+        tuner cannot match or is in bypass are marked.
     force : bool
         Overwrite an existing file.
 
     Returns
     -------
     matplotlib.figure.Figure
-        Each panel holds two lines, antenna then radio, x in MHz.
+        Each band panel holds two lines, antenna then radio, x in MHz; the panel of single
+        frequencies two lines of markers. Raises `PlotInputError` where no SWR is finite (a total
+        reflection everywhere): there is nothing to draw.
     """
     _target(path, force)
     count = len(labels)
     frequency_hz, swr_antenna, swr_radio = (_arrays(name, values, count) for name, values in
                                             (("frequency_hz", frequency_hz), ("swr_antenna", swr_antenna),
                                              ("swr_radio", swr_radio)))
+    state = [np.full(f.shape, "", dtype=object) for f in frequency_hz] if tuner_state is None else \
+        [np.asarray(s, dtype=object) for s in tuner_state]
+    finite = np.concatenate([s[np.isfinite(s)] for s in swr_antenna + swr_radio])
+    if finite.size == 0:
+        raise PlotInputError("nothing to draw: the SWR is infinite at every point (a total reflection, such as "
+                             "a shorted or open antenna)")
+    swept = [n for n in range(count) if frequency_hz[n].size > 1]
+    single = [n for n in range(count) if frequency_hz[n].size == 1]
+    panels = [(labels[n], [n]) for n in swept] + ([("single frequencies", single)] if single else [])
     with _rc():
-        from matplotlib.ticker import (
-            FixedLocator,
-            FuncFormatter,
-            MaxNLocator,
-            NullLocator,
-        )
+        from matplotlib.ticker import FuncFormatter, MaxNLocator, NullLocator
 
-        columns = min(count, 4)
-        rows = -(-count // columns)
+        columns = min(len(panels), 4)
+        rows = -(-len(panels) // columns)
         figure, axes = _figure(rows, columns)
-        finite = np.concatenate([s[np.isfinite(s)] for s in swr_antenna + swr_radio] + [np.array([2.0])])
         steps = (1, 1.5, 2, 3, 5, 10, 20, 50, 100, 200, 500)
+        top_data = max(float(finite.max()), 2.0)
         # the axis ends on the first tick above the data, so that the top of every curve is labelled
-        top = next((t for t in steps if t >= float(finite.max()) * 1.05), float(finite.max()) * 1.15)
-        ticks = [t for t in steps if t <= top]
-        for n, ax in enumerate(axes.flat):
-            if n >= count:
+        top = next((t for t in steps if t >= top_data * 1.05), top_data * 1.15)
+        for p, ax in enumerate(axes.flat):
+            if p >= len(panels):
                 ax.set_visible(False)
                 continue
-            mhz = frequency_hz[n] / 1e6
-            ax.plot(mhz, swr_antenna[n], color=_colour(0), linewidth=2, label="at the antenna")
-            ax.plot(mhz, swr_radio[n], color=_colour(1), linewidth=2, linestyle="--", label="at the radio")
-            if tuner_set_hz is not None and tuner_set_hz[n] is not None:
-                ax.axvline(tuner_set_hz[n] / 1e6, color="black", linewidth=1, linestyle=":",
-                           label="tuner set here, then held")
+            title, members = panels[p]
+            if len(members) == 1 and frequency_hz[members[0]].size > 1:
+                n = members[0]
+                mhz = frequency_hz[n] / 1e6
+                ax.plot(mhz, swr_antenna[n], color=_colour(0), linewidth=2, label="at the antenna")
+                ax.plot(mhz, swr_radio[n], color=_colour(1), linewidth=2, linestyle="--", label="at the radio")
+                if tuner_set_hz is not None and tuner_set_hz[n] is not None:
+                    ax.axvline(tuner_set_hz[n] / 1e6, color="black", linewidth=1, linestyle=":",
+                               label="tuner set here, then held")
+                ax.xaxis.set_major_locator(MaxNLocator(3))
+            else:
+                mhz = np.array([frequency_hz[n][0] for n in members]) / 1e6
+                ax.plot(mhz, [swr_antenna[n][0] for n in members], color=_colour(0), linestyle="none", marker="o",
+                        markersize=8, label="at the antenna")
+                ax.plot(mhz, [swr_radio[n][0] for n in members], color=_colour(1), linestyle="none", marker="s",
+                        markersize=7, markerfacecolor="white", markeredgewidth=2, label="at the radio")
+                for n, x in zip(members, mhz):
+                    for value, dy in ((swr_antenna[n][0], 6), (swr_radio[n][0], -14)):
+                        if np.isfinite(value):
+                            ax.annotate(f"{value:.2f}", (x, value), xytext=(6, dy), textcoords="offset points",
+                                        fontsize=9)
+                ax.set_xticks(mhz, [labels[n] for n in members], rotation=30 if len(members) > 3 else 0)
+                ax.set_xlim(mhz.min() - 0.5 - 0.05 * np.ptp(mhz), mhz.max() + 0.5 + 0.05 * np.ptp(mhz))
+            for marked, style, text in ((figure_data.TUNER_UNMATCHED, {"marker": "x", "color": "#d62728"},
+                                         "tuner cannot match"),
+                                        (figure_data.TUNER_BYPASSED, {"marker": "|", "color": "0.3"},
+                                         "tuner in bypass")):
+                x = np.concatenate([frequency_hz[n][state[n] == marked] for n in members]) / 1e6
+                y = np.concatenate([swr_radio[n][state[n] == marked] for n in members])
+                if x.size:
+                    ax.plot(x, y, linestyle="none", markersize=6, markeredgewidth=1.2, label=text, **style)
             ax.set_yscale("log")
             ax.set_ylim(SWR_AXIS_BOTTOM, top)  # a little below 1 so that a matched curve shows
-            ax.yaxis.set_major_locator(FixedLocator(ticks))
+            ax.yaxis.set_major_locator(_swr_ticks(top))
             ax.yaxis.set_major_formatter(FuncFormatter(lambda value, _: f"{value:g}"))
             ax.yaxis.set_minor_locator(NullLocator())
-            ax.xaxis.set_major_locator(MaxNLocator(3))
             ax.grid(True, alpha=0.3)
-            ax.set_title(labels[n])
-            if n % columns == 0:
-                ax.set_ylabel("SWR [1]")
-            if n >= count - columns:
-                ax.set_xlabel("frequency [MHz]")
+            ax.set_title(title)
+            if p % columns == 0:
+                ax.set_ylabel("SWR")
+            if p >= len(panels) - columns:
+                ax.set_xlabel("frequency [MHz]" if len(members) == 1 and frequency_hz[members[0]].size > 1
+                              else "frequency")
         legend = {}
-        for ax in axes.flat[:count]:
+        for ax in axes.flat[:len(panels)]:
             legend.update(zip(*reversed(ax.get_legend_handles_labels())))
         figure.legend(list(legend.values()), list(legend), loc="outside upper right", ncols=len(legend))
-        figure.suptitle("SWR across each band", x=0.02, ha="left")
+        figure.suptitle("SWR across each band" if swept else "SWR at each frequency", x=0.02, ha="left")
         return _save(figure, path, force)
 
 
@@ -184,8 +240,14 @@ class LossShares:
     heat_w: np.ndarray
 
 
+# A part (not a line or a tuner) with more than this share of the total loss in dB on any row
+# gets a bar of its own, named by its label, instead of going into "other parts".
+OWN_BAR_SHARE = 0.1
+
+
 def loss_shares(result) -> LossShares:
-    """Split a budget into line matched loss, line mismatch loss, tuner loss and everything else.
+    """Split a budget into the lines' matched and mismatch loss, the tuners' loss, every part
+    with more than OWN_BAR_SHARE of the total loss on a row of its own, and the other parts.
 
     Parameters
     ----------
@@ -194,35 +256,71 @@ def loss_shares(result) -> LossShares:
     Returns
     -------
     LossShares
-        In dB: the lines' matched loss; the lines' loss beyond it (their standing waves); the
-        tuners' loss; every other element's loss in place. In watts: a line whose output
-        carries P_out heats P_out (10^(ML/10) - 1) when matched (ML its matched loss), the rest
-        of its heat is the mismatch share; tuners and the other elements, their heat.
+        Only categories with an element in the feed that loses something (a lossless meter
+        adds none). In dB: the lines' matched loss; the lines'
+        loss beyond it (their standing waves); the tuners' loss; each part's loss in place. In
+        watts: a line of loss L and matched loss ML fed P_in heats P_in (10^(-(L - ML)/10) -
+        10^(-L/10)) when matched, which is P_out (10^(ML/10) - 1) written so that it stays
+        finite on a line thousands of dB long; the rest of its heat is the mismatch share.
+        Tuners and the parts, their heat.
     """
-    categories = ("line matched loss", "line mismatch loss", "tuner loss", "everything else")
     rows = len(result.labels)
-    loss_db, heat_w = np.zeros((4, rows)), np.zeros((4, rows))
-    power_out = np.asarray(result.power_radio_w, dtype=float).copy()
+    total = np.asarray(result.total_loss_db, dtype=float)
+    categories, loss_db, heat_w = {}, {}, {}
+
+    def add(name, db, watts):
+        categories.setdefault(name, len(categories))
+        loss_db[name] = loss_db.get(name, np.zeros(rows)) + db
+        heat_w[name] = heat_w.get(name, np.zeros(rows)) + watts
+
+    power_in = np.asarray(result.power_radio_w, dtype=float).copy()
     for element in result.elements:
-        power_out = power_out - element.dissipated_w
         if element.kind == "line":
-            matched_heat = power_out * (10 ** (element.matched_loss_db / 10) - 1)
-            loss_db[0] += element.matched_loss_db
-            loss_db[1] += element.loss_db - element.matched_loss_db
-            heat_w[0] += matched_heat
-            heat_w[1] += element.dissipated_w - matched_heat
+            loss, matched = np.asarray(element.loss_db), np.asarray(element.matched_loss_db)
+            matched_heat = power_in * (10 ** (-(loss - matched) / 10) - 10 ** (-loss / 10))
+            add("line matched loss", matched, matched_heat)
+            add("line mismatch loss", loss - matched, element.dissipated_w - matched_heat)
+        elif element.kind == "tuner":
+            add("tuner loss", element.loss_db, element.dissipated_w)
         else:
-            share = 2 if element.kind == "tuner" else 3
-            loss_db[share] += element.loss_db
-            heat_w[share] += element.dissipated_w
-    return LossShares(categories, loss_db, heat_w)
+            share = np.divide(element.loss_db, total, out=np.zeros(rows), where=np.isfinite(total) & (total > 0))
+            add(element.label if np.any(share > OWN_BAR_SHARE) else "other parts", element.loss_db,
+                element.dissipated_w)
+        power_in = power_in - element.dissipated_w
+    first, last = ("line matched loss", "line mismatch loss", "tuner loss"), ("other parts",)
+    # parts that lose nothing at all (a meter, taken as lossless) add a legend entry but no bar
+    present = [n for n in categories if np.any(loss_db[n] != 0) or np.any(heat_w[n] != 0)]
+    names = tuple(sorted(present, key=lambda n: (first.index(n) if n in first else 3 + (n in last),
+                                                 categories[n])))
+    if not names:
+        return LossShares((), np.zeros((0, rows)), np.zeros((0, rows)))
+    return LossShares(names, np.array([loss_db[n] for n in names]), np.array([heat_w[n] for n in names]))
+
+
+def si_watts(power_w):
+    """A power in watts with an SI prefix and 3 significant digits: 1.27 kW, 85.3 W, 12 mW."""
+    value = float(power_w)
+    if value == 0 or not np.isfinite(value):
+        return f"{value:g} W"
+    for scale, prefix in ((1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ")):
+        if abs(value) >= scale * 0.9995:
+            return f"{value / scale:.3g} {prefix}W"
+    return f"{value:.3g} W"
+
+
+def tuner_note(state):
+    """What a row's tuner did, as marked on every figure ("" where it simply matched or there is none)."""
+    return smith_chart.TUNER_NOTES.get(state, "")
 
 
 def _stacked(ax, labels, values, categories):
-    """Stacked bars, positive shares upward from 0 and negative shares downward; returns the tops."""
+    """Stacked bars, positive shares upward from 0 and negative shares downward; returns the tops.
+    A share that is not finite (a row where no power reaches the antenna) is left out of the
+    stack; the caller marks that row."""
     x = np.arange(len(labels))
     up, down = np.zeros(len(labels)), np.zeros(len(labels))
     for n, (name, heights) in enumerate(zip(categories, values)):
+        heights = np.where(np.isfinite(heights), heights, 0.0)
         base = np.where(heights >= 0, up, down)
         ax.bar(x, heights, 0.6, bottom=base, color=_colour(n), label=name, edgecolor="white", linewidth=0.5)
         up, down = np.where(heights >= 0, up + heights, up), np.where(heights < 0, down + heights, down)
@@ -248,85 +346,47 @@ def plot_loss_budget(path, result, *, force=False):
     matplotlib.figure.Figure
         Axes 0 (dB) and 1 (W) each hold one BarContainer per category of `loss_shares`, in its
         order; a share below zero (a short line whose current minimum lowers its heat) is drawn
-        downward from zero. The watts panel writes the watts at the antenna above each bar.
+        downward from zero. The watts panel writes the watts at the antenna above each bar. A
+        row whose loss is infinite (no power reaches the antenna) has no dB bar and says so; a
+        row whose tuner is in bypass or cannot match says so under its band.
     """
     _target(path, force)
     shares = loss_shares(result)
-    labels = list(result.labels)
+    state = figure_data.tuner_states(result)
+    labels = [label + (f"\n{tuner_note(s)}" if tuner_note(s) else "") for label, s in zip(result.labels, state)]
     with _rc():
         figure, axes = _figure(2, 1, sharex=True)
         db_ax, w_ax = axes[:, 0]
-        db_tops = _stacked(db_ax, labels, shares.loss_db, shares.categories)
-        if np.max(db_tops) > 0:
-            db_ax.set_ylim(top=1.1 * float(np.max(db_tops)))
+        # a row of infinite loss (no power reaches the antenna) has no height to stack: its dB
+        # bar is left out and the row says so
+        dead = ~np.isfinite(np.asarray(result.total_loss_db, dtype=float))
+        db_tops = _stacked(db_ax, labels, np.where(dead, 0.0, shares.loss_db), shares.categories)
+        for x in np.flatnonzero(dead):
+            db_ax.annotate("infinite loss:\nno power reaches\nthe antenna", (x, 0.5), xycoords=("data", "axes fraction"),
+                           ha="center", va="center", fontsize=10, color="#d62728")
+        if np.max(db_tops, initial=0.0) > 0:
+            db_ax.set_ylim(top=1.15 * float(np.max(db_tops)))
         db_ax.set_ylabel("loss [dB]")
         db_ax.set_title(f"Where the loss goes: {result.station}", loc="left")
         totals = _stacked(w_ax, labels, shares.heat_w, shares.categories)
         w_ax.set_ylabel("heat [W]")
-        w_ax.set_title(f"Heat from {result.radio_power_w:g} W at the radio; watts at the antenna above each bar",
+        w_ax.set_title(f"Heat from {si_watts(result.radio_power_w)} at the radio; watts at the antenna above each bar",
                        loc="left")
         for x, (total, delivered) in enumerate(zip(totals, result.power_antenna_w)):
-            w_ax.annotate(f"{delivered:.3g} W", (x, max(total, 0.0)), xytext=(0, 3), textcoords="offset points",
+            w_ax.annotate(si_watts(delivered), (x, max(total, 0.0)), xytext=(0, 3), textcoords="offset points",
                           ha="center", va="bottom", fontsize=10)
         # room for the labels: a fifth above the highest bar (a hundredth of the power if none)
         highest = float(np.max(totals))
         w_ax.set_ylim(top=1.2 * highest if highest > 0 else 0.01 * result.radio_power_w)
         w_ax.set_xlabel("band")
-        figure.legend(*db_ax.get_legend_handles_labels(), loc="outside upper center", ncols=4)
+        if shares.categories:
+            figure.legend(*db_ax.get_legend_handles_labels(), loc="outside upper center",
+                          ncols=min(len(shares.categories), 4))
         return _save(figure, path, force)
 
 
-def _smith_grid(ax):
-    """Constant-r circles and constant-x arcs of the normalised impedance z = r + jx in the
-    reflection plane rho = (z - 1)/(z + 1) (Pozar, Microwave Engineering, 4th ed., section 2.4)."""
-    t = np.linspace(0, 2 * np.pi, 361)
-    style = {"color": "0.7", "linewidth": 0.7}
-    for r in SMITH_R:
-        centre, radius = r / (1 + r), 1 / (1 + r)
-        ax.plot(centre + radius * np.cos(t), radius * np.sin(t), gid=f"smith-r-{r:g}", **style)
-        ax.annotate(f"{r:g}", (centre - radius, 0), xytext=(2, -3), textcoords="offset points",
-                    ha="left", va="top", fontsize=10, color="0.35")
-    ax.plot(np.cos(t), np.sin(t), color="0.3", linewidth=1.2, gid="smith-rim")
-    resistance = np.concatenate([[0.0], np.geomspace(1e-3, 1e3, 300)])
-    for x in SMITH_X:
-        for sign in (1, -1):
-            z = resistance + 1j * sign * x
-            rho = (z - 1) / (z + 1)
-            ax.plot(rho.real, rho.imag, gid=f"smith-x-{sign * x:+g}", **style)
-            edge = (1j * sign * x - 1) / (1j * sign * x + 1)  # where the arc meets the rim
-            ax.annotate(f"{sign * x:+g}j", (0.9 * edge.real, 0.9 * edge.imag), ha="center", va="center",
-                        fontsize=10, color="0.35")
-    ax.plot([-1, 1], [0, 0], **style)
-
-
-def _spread_angles(angles, gap):
-    """Label angles near ``angles`` [rad] at least ``gap`` apart (neighbours pushed apart evenly)."""
-    order = np.argsort(angles)
-    spread = np.array(angles, dtype=float)[order]
-    for _ in range(200):
-        deficit = gap - np.diff(spread)
-        if np.all(deficit <= 1e-9):
-            break
-        push = np.where(deficit > 0, deficit / 2, 0.0)
-        spread[:-1] -= push
-        spread[1:] += push
-    out = np.empty_like(spread)
-    out[order] = spread
-    return out
-
-
-def _label_around(ax, rho, labels):
-    """Each label outside the chart's rim, near its point's direction, with a leader line."""
-    angles = _spread_angles(np.angle(rho), SMITH_LABEL_GAP)
-    for point, angle, label in zip(rho, angles, labels):
-        anchor, text = 1.06 * np.exp(1j * angle), 1.1 * np.exp(1j * angle)
-        ax.plot([point.real, anchor.real], [point.imag, anchor.imag], color="0.45", linewidth=0.7)
-        ha = "left" if np.cos(angle) > 0.3 else "right" if np.cos(angle) < -0.3 else "center"
-        va = "bottom" if np.sin(angle) > 0.3 else "top" if np.sin(angle) < -0.3 else "center"
-        ax.annotate(label, (text.real, text.imag), ha=ha, va=va, fontsize=10)
-
-
-def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, force=False):
+def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, reference_line=None, line_paths=(),
+               sweep_labels=None, sweep_z_antenna_ohm=None, sweep_z_radio_ohm=None, tuner_state=None, force=False):
     """The impedance at the antenna and at the radio on a Smith chart normalised to ``z_ref_ohm``.
 
     Parameters
@@ -339,9 +399,18 @@ def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, forc
     z_ref_ohm : float
         Reference impedance of the chart [ohm].
     labels : sequence of str or None
-        One per point: the points are markers, the antenna's labelled, each joined to its radio
-        point by a dotted line; the labels sit outside the rim, joined to their points. None: the
-        points are a sweep, drawn as two curves, each with a dot at its first point.
+        One per point, written in two columns beside the chart and joined to the antenna's
+        points; None: no labels.
+    reference_line : str or None
+        The line whose nominal impedance ``z_ref_ohm`` is, for the title (None: the station's
+        reference impedance).
+    line_paths : sequence of (str, ndarray of complex (points, n))
+        Per line, its label and rho along it from the antenna end to the radio end (drawn as
+        its spiral).
+    sweep_labels, sweep_z_antenna_ohm, sweep_z_radio_ohm : sequences or None
+        With a sweep: per band, its label and the impedances [ohm] across it (drawn as traces).
+    tuner_state : sequence of str or None
+        Per point, `linecalc.studies.figure_data.tuner_states` (marked on the chart).
     force : bool
         Overwrite an existing file.
 
@@ -354,40 +423,23 @@ def plot_smith(path, z_antenna_ohm, z_radio_ohm, z_ref_ohm, labels=None, *, forc
     _target(path, force)
     if z_antenna_ohm is None or z_radio_ohm is None:
         raise PlotInputError("no impedances to draw: an SWR-only antenna has no phase")
-    rho_antenna = (np.asarray(z_antenna_ohm, dtype=complex) - z_ref_ohm) / (np.asarray(z_antenna_ohm) + z_ref_ohm)
-    rho_radio = (np.asarray(z_radio_ohm, dtype=complex) - z_ref_ohm) / (np.asarray(z_radio_ohm) + z_ref_ohm)
-    if rho_antenna.shape != rho_radio.shape or (labels is not None and len(labels) != rho_antenna.size):
+    z_antenna, z_radio = np.asarray(z_antenna_ohm, dtype=complex), np.asarray(z_radio_ohm, dtype=complex)
+    if z_antenna.shape != z_radio.shape or (labels is not None and len(labels) != z_antenna.size):
         raise PlotInputError("z_antenna_ohm, z_radio_ohm and labels must have one entry per point")
+    data = figure_data.SmithPoints(z_antenna, z_radio, float(z_ref_ohm), None if labels is None else list(labels),
+                                   reference_line, tuple(line_paths), sweep_labels, sweep_z_antenna_ohm,
+                                   sweep_z_radio_ohm, None if tuner_state is None else np.asarray(tuner_state))
     with _rc():
         figure, axes = _figure()
         ax = axes[0, 0]
-        _smith_grid(ax)
-        if labels is not None:
-            for a, r in zip(rho_antenna, rho_radio):
-                ax.plot([a.real, r.real], [a.imag, r.imag], color=_colour(5), linewidth=0.8, linestyle=":")
-            _label_around(ax, rho_antenna, labels)
-            style_antenna = {"linestyle": "none", "marker": "o", "markersize": 8}
-            style_radio = {"linestyle": "none", "marker": "s", "markersize": 7, "markerfacecolor": "white",
-                           "markeredgewidth": 2}
-        else:
-            # a dot marks where each curve starts (the first frequency)
-            style_antenna = {"linewidth": 2, "marker": "o", "markevery": [0]}
-            style_radio = {"linewidth": 2, "linestyle": "--", "marker": "o", "markevery": [0]}
-        ax.plot(rho_antenna.real, rho_antenna.imag, color=_colour(0), label="at the antenna", **style_antenna)
-        ax.plot(rho_radio.real, rho_radio.imag, color=_colour(5), label="at the radio", **style_radio)
-        ax.set_aspect("equal")
-        ax.set_xlim(-1.32, 1.32)
-        ax.set_ylim(-1.25, 1.25)
-        ax.set_xlabel(f"Re ρ [1], ρ = (Z − {z_ref_ohm:g} Ω)/(Z + {z_ref_ohm:g} Ω)")
-        ax.set_ylabel("Im ρ [1]")
-        ax.set_title(f"Impedance on a Smith chart, normalised to {z_ref_ohm:g} Ω (circles: r, arcs: x)")
-        ax.legend(loc="upper left", bbox_to_anchor=(1.02, 1.0))
+        smith_chart.draw_smith(ax, data, _colour)
+        figure.legend(*ax.get_legend_handles_labels(), loc="outside right upper", fontsize=9)
         return _save(figure, path, force)
 
 
 def plot_line_voltage(path, labels, position_m, voltage_v, *, rating_v=None, line_label="feedline",
-                      force=False):
-    """RMS voltage magnitude along a feedline, one curve per band.
+                      current_a=None, power_w=None, tuner_state=None, force=False):
+    """RMS voltage magnitude along a feedline, one curve per band, and the current below it.
 
     Parameters
     ----------
@@ -397,36 +449,67 @@ def plot_line_voltage(path, labels, position_m, voltage_v, *, rating_v=None, lin
         Band names, one per curve.
     position_m, voltage_v : sequence of array_like
         Per band: distance from the radio end of the line [m] and |V| there [V, RMS] (see
-        `linecalc.physics.length_scan.voltage_along_line`).
+        `linecalc.physics.voltage.line_profile_from_both_ends`).
     rating_v : float or None
-        The cable's voltage rating [V], drawn as a dashed line when given.
+        The cable's voltage rating [V]: a margin note with the highest voltage's share of it;
+        drawn as a dashed line only where the voltage reaches it (so that it never sets the scale).
     line_label : str
         Name of the line, for the title.
+    current_a : sequence of array_like or None
+        Per band, |I| at the same positions [A, RMS], drawn in a lower panel.
+    power_w : float or None
+        The radio's power the profile is solved at [W], for the title.
+    tuner_state : sequence of str or None
+        Per band, `linecalc.studies.figure_data.tuner_states`, marked in the legend.
     force : bool
         Overwrite an existing file.
 
     Returns
     -------
     matplotlib.figure.Figure
-        One line per band in order, then the rating line if any.
+        Axes 0: one line per band in order (then the rating line, where drawn); axes 1 (with
+        ``current_a``): one line per band.
     """
     _target(path, force)
     count = len(labels)
     position_m, voltage_v = _arrays("position_m", position_m, count), _arrays("voltage_v", voltage_v, count)
+    if current_a is not None:
+        current_a = _arrays("current_a", current_a, count)
+    state = [""] * count if tuner_state is None else list(tuner_state)
+    names = [label + (f" ({tuner_note(s)})" if tuner_note(s) else "") for label, s in zip(labels, state)]
     with _rc():
-        figure, axes = _figure()
+        figure, axes = _figure(2 if current_a is not None else 1, 1, sharex=True)
         ax = axes[0, 0]
         for n in range(count):
-            ax.plot(position_m[n], voltage_v[n], color=_colour(n), linewidth=2, label=labels[n])
+            ax.plot(position_m[n], voltage_v[n], color=_colour(n), linewidth=2, label=names[n])
+        highest = max(float(np.max(v)) for v in voltage_v)
         if rating_v is not None:
-            ax.axhline(rating_v, color="black", linestyle="--", linewidth=1.2, label=f"cable rating {rating_v:g} V")
-        ax.set_ylim(bottom=0)
+            if highest >= rating_v:
+                ax.axhline(rating_v, color="black", linestyle="--", linewidth=1.2, label=f"cable rating {rating_v:g} V")
+            note = (f"cable rating {rating_v:,.0f} V RMS; the highest voltage here, {highest:,.0f} V, is "
+                    f"{100 * highest / rating_v:.0f} % of it")
+            ax.annotate(note, (0.99, 0.97), xycoords="axes fraction", ha="right", va="top", fontsize=10,
+                        color="0.2", bbox={"boxstyle": "round", "facecolor": "white", "edgecolor": "0.7"})
+        top = highest * 1.12 if highest > 0 else 1.0
+        ax.set_ylim(0, max(top, rating_v * 1.05) if rating_v is not None and highest >= rating_v else top)
         ax.set_xlim(min(float(p.min()) for p in position_m), max(float(p.max()) for p in position_m))
-        ax.set_xlabel("distance from the radio end of the line [m]")
         ax.set_ylabel("voltage [V RMS]")
-        ax.set_title(f"Voltage along the {line_label}", loc="left")
+        at = f" at {si_watts(power_w)} from the radio" if power_w is not None else ""
+        ax.set_title(f"Voltage and current along the {line_label}{at}" if current_a is not None
+                     else f"Voltage along the {line_label}{at}", loc="left")
         ax.grid(True, alpha=0.3)
         ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        bottom = ax
+        if current_a is not None:
+            bottom = axes[1, 0]
+            for n in range(count):
+                bottom.plot(position_m[n], current_a[n], color=_colour(n), linewidth=1.6, label=names[n])
+            largest = max(float(np.max(i)) for i in current_a)
+            bottom.set_ylim(0, largest * 1.12 if largest > 0 else 1.0)
+            bottom.set_ylabel("current [A RMS]")
+            bottom.grid(True, alpha=0.3)
+        bottom.set_xlabel("distance from the radio end of the line [m]")
+        bottom.ticklabel_format(axis="x", style="plain", useOffset=False)  # metres as written, no "1e6"
         figure.text(0.01, 0.005, VOLTAGE_CAUTION, fontsize=10, color="0.25", ha="left", va="bottom")
         figure.get_layout_engine().set(h_pad=0.3)
         return _save(figure, path, force)
@@ -489,12 +572,16 @@ def draw(data, path, *, force=False):
     try:
         if isinstance(data, figure_data.SwrCurves):
             return plot_swr(path, data.labels, data.frequency_hz, data.swr_antenna, data.swr_radio,
-                            tuner_set_hz=data.tuner_set_hz, force=force)
+                            tuner_set_hz=data.tuner_set_hz, tuner_state=data.tuner_state, force=force)
         if isinstance(data, figure_data.SmithPoints):
-            return plot_smith(path, data.z_antenna_ohm, data.z_radio_ohm, data.z_ref_ohm, data.labels, force=force)
+            return plot_smith(path, data.z_antenna_ohm, data.z_radio_ohm, data.z_ref_ohm, data.labels,
+                              reference_line=data.reference_line, line_paths=data.line_paths,
+                              sweep_labels=data.sweep_labels, sweep_z_antenna_ohm=data.sweep_z_antenna_ohm,
+                              sweep_z_radio_ohm=data.sweep_z_radio_ohm, tuner_state=data.tuner_state, force=force)
         if isinstance(data, figure_data.LineVoltage):
             return plot_line_voltage(path, data.labels, data.position_m, data.voltage_v, rating_v=data.rating_v,
-                                     line_label=data.line_label, force=force)
+                                     line_label=data.line_label, current_a=data.current_a, power_w=data.power_w,
+                                     tuner_state=data.tuner_state, force=force)
         if isinstance(data, figure_data.CompareWatts):
             return plot_compare(path, data.labels, data.power_antenna_w, radio_power_w=data.radio_power_w,
                                 force=force)

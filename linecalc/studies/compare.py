@@ -170,12 +170,15 @@ def _feedpoint_run_end(feed, index):
     return end
 
 
-def _with_cable(feed, index, cable, z_ref_ohm):
-    """The feed with line ``index`` made of ``cable``, plus the balun or choke a change of kind
-    needs, and what changed (texts)."""
+def _with_cable(feed, index, cable, z_ref_ohm, name=None):
+    """The feed with line ``index`` made of ``cable`` (called ``name``, default its id), plus the
+    balun or choke a change of kind needs, and what changed (texts)."""
     feed = list(feed)
     old = feed[index]
-    feed[index] = dataclasses.replace(old, cable=cable)
+    # a line of another kind is no longer what its label says ("window line" made of coax): it
+    # takes the name of its alternative (see `retyped_name`)
+    feed[index] = dataclasses.replace(old, cable=cable, label=old.label if old.cable.kind == cable.kind
+                                      else retyped_name(old.label, name or cable.id))
     if old.cable.kind == cable.kind:
         return tuple(feed), ()
     changes = []
@@ -206,10 +209,16 @@ def cable_alternatives(station: Station, cables, main_label=None) -> list[Altern
     line = station.feed[index]
     alternatives = [Alternative(f"{line.label}: {line.cable.id} (as built)", station)]
     for name, cable in cables:
-        feed, changes = _with_cable(station.feed, index, cable, station.reference_impedance_ohm)
-        alternatives.append(Alternative(f"{line.label}: {name}", dataclasses.replace(station, feed=feed),
-                                        changes=changes))
+        feed, changes = _with_cable(station.feed, index, cable, station.reference_impedance_ohm, name)
+        named = f"{line.label}: {name}" if cable.kind == line.cable.kind else retyped_name(line.label, name)
+        alternatives.append(Alternative(named, dataclasses.replace(station, feed=feed), changes=changes))
     return alternatives
+
+
+def retyped_name(label, cable_name):
+    """The name of a line replaced by a cable of another kind (coax for a window line): the new
+    cable first, so that no label calls a coax a window line."""
+    return f"{cable_name} in place of {label}"
 
 
 def tuner_alternatives(station: Station, main_label=None) -> list[Alternative]:

@@ -121,6 +121,48 @@ def test_profile_ends_are_the_solver_nodes_and_lengths_vectorise():
         np.testing.assert_allclose(together.voltage_rms_v[k], alone.voltage_rms_v, rtol=1e-12)
 
 
+def test_profile_from_both_ends_against_chain_matrices_and_finite_on_a_very_long_line():
+    # Independent method: the line's chain matrix of length l - x applied to the output state
+    # (Pozar, Microwave Engineering, 4th ed., Table 4.1).
+    cable = cables.cable_from_points("rg-213-class", "test coax", "coax", Z0_OHM, 0.66,
+                                     [1e6, 10e6, 100e6], [0.0018, 0.0062, 0.022])
+    z0, gamma, path = solve_line(cable, 23.0, 30 - 80j, FREQUENCY_HZ)
+    nodes = (path.voltage_v[0], path.current_a[0], path.voltage_v[1], path.current_a[1])
+    profile = voltage.line_profile_from_both_ends(z0, gamma, 23.0, *nodes, 47)
+    abcd = twoports.line_abcd(z0, gamma, 23.0 - profile.position_m)
+    v = abcd[..., 0, 0] * path.voltage_v[1] + abcd[..., 0, 1] * path.current_a[1]
+    i = abcd[..., 1, 0] * path.voltage_v[1] + abcd[..., 1, 1] * path.current_a[1]
+    np.testing.assert_allclose(profile.voltage_rms_v, np.abs(v), rtol=1e-9)
+    np.testing.assert_allclose(profile.current_rms_a, np.abs(i), rtol=1e-9)
+    # 1,000 km (thousands of dB): both waves decay from their own end, nothing overflows
+    # 1,000 km (thousands of dB): the input sees Z0 (only the forward wave), the output nothing
+    # (the solver's node underflows to zero); both waves decay from their own end, nothing overflows
+    v_in = np.full(FREQUENCY_HZ.shape, 70.0 + 0j)
+    far = voltage.line_profile_from_both_ends(z0, gamma, 1e6, v_in, v_in / z0, 0 * v_in, 0 * v_in, 2001)
+    assert np.all(np.isfinite(far.voltage_rms_v)) and np.all(np.isfinite(far.current_rms_a))
+    # the forward wave alone: |V(x)| = |V_in| e^(-alpha x) (Pozar, 4th ed., section 2.7)
+    np.testing.assert_allclose(far.voltage_rms_v[:3], 70.0 * np.exp(-gamma.real * far.position_m[:3, None]),
+                               rtol=1e-12)
+
+
+def test_reflection_along_a_line_is_the_input_impedance_of_the_terminated_line():
+    # Z_in = Z0 (Z_L + Z0 tanh(gamma d)) / (Z0 + Z_L tanh(gamma d)), Pozar, Microwave
+    # Engineering, 4th ed., section 2.7 (the terminated lossy line), at every distance d.
+    cable = cables.cable_from_points("ladder-class", "test two-wire line", "balanced", 450.0, 0.9,
+                                     [1e6, 10e6, 100e6], [0.0003, 0.001, 0.004])
+    f = np.array([3.6e6, 14.2e6])
+    z0, gamma = cable.constants(f)
+    z_load = np.array([60 + 20j, 1800 + 1250j])
+    distance, rho = voltage.reflection_along_line(z0, gamma, 18.0, z_load, np.ones(2), 450.0, 31)
+    t = np.tanh(gamma * distance[:, None])
+    z_in = z0 * (z_load + z0 * t) / (z0 + z_load * t)
+    np.testing.assert_allclose(rho, (z_in - 450.0) / (z_in + 450.0), rtol=1e-9, atol=1e-12)
+    np.testing.assert_allclose(rho[0], (z_load - 450.0) / (z_load + 450.0), rtol=1e-12)
+    # an open end (I = 0) sits on the open-circuit point, rho = 1, with no division by zero
+    _, rho = voltage.reflection_along_line(z0, gamma, 18.0, np.ones(2), np.zeros(2), 450.0, 3)
+    np.testing.assert_allclose(rho[0], 1.0, atol=1e-12)
+
+
 def test_sampling_resolves_every_half_wave_and_is_capped():
     _, gamma = LOSSLESS.constants(np.array([14.2e6]))
     half_wave_m = np.pi / gamma.imag[0]  # 6.97 m at VF 0.66

@@ -125,7 +125,8 @@ def test_loss_budget_plot(tmp_path, coax_result):
     check_file(path)
     db_ax, w_ax = figure.axes[:2]
     shares = plots.loss_shares(coax_result)
-    assert len(db_ax.containers) == len(w_ax.containers) == 4
+    assert len(db_ax.containers) == len(w_ax.containers) == len(shares.categories)
+    assert shares.categories[:3] == ("line matched loss", "line mismatch loss", "tuner loss")
     db_heights = np.array([[bar.get_height() for bar in c] for c in db_ax.containers])
     w_heights = np.array([[bar.get_height() for bar in c] for c in w_ax.containers])
     # a stacked bar stores its top and bottom, so its height comes back to rounding
@@ -147,7 +148,7 @@ def test_loss_budget_plot(tmp_path, coax_result):
     labels = [t.get_text() for t in w_ax.get_xticklabels()]
     assert labels == list(LABELS)
     annotations = [t.get_text() for t in w_ax.texts]
-    assert annotations == [f"{p:.3g} W" for p in coax_result.power_antenna_w]
+    assert annotations == [plots.si_watts(p) for p in coax_result.power_antenna_w]
     assert "[dB]" in db_ax.get_ylabel() and "[W]" in w_ax.get_ylabel()
 
 
@@ -220,7 +221,8 @@ def test_voltage_plot(tmp_path, ladder_result):
     for line, expected in zip(ax.lines, voltage.T):
         np.testing.assert_array_equal(line.get_xdata(), position)
         np.testing.assert_array_equal(line.get_ydata(), expected)
-    assert list(ax.lines[-1].get_ydata()) == [1000.0, 1000.0]
+    # a rating above every voltage is a margin note, not a line on the scale
+    assert len(ax.lines) == len(LABELS) and any("cable rating 1,000 V" in t.get_text() for t in ax.texts)
     assert "[m]" in ax.get_xlabel() and "[V" in ax.get_ylabel()
     assert any("kill" in t.get_text() for t in figure.texts)  # the usual caution
 

@@ -164,7 +164,10 @@ def test_coax_replaced_by_balanced_line_drops_the_coax_choke():
     from linecalc.studies.compare import cable_alternatives
 
     window = cable_alternatives(parse_station_text(CHOKED), [("window", cable("window-line-450"))])[1]
-    assert _kinds(window.station) == [("tuner", "shack tuner"), ("line", "coax"), ("meter", "feedpoint meter")]
+    # the retyped line is named after its alternative: a window line is no longer "coax"
+    assert window.name == "window in place of coax"
+    assert _kinds(window.station) == [("tuner", "shack tuner"), ("line", "window in place of coax"),
+                                      ("meter", "feedpoint meter")]
     assert window.station.feed[0].output_balanced
     assert any("dropped" in c for c in window.changes) and any("made balanced" in c for c in window.changes)
 
