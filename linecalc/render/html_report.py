@@ -165,8 +165,8 @@ def _safety_view(doc):
              f"{e['power_margin']:.1f}" if "power_margin" in e else "no rating") for label, e in line["rows"]]})
     parts = []
     for tuner in _by_element(rows, "tuner"):
-        names = sorted({key[:-len("_voltage_peak_v")] for _, e in tuner["rows"] for key in e
-                        if key.endswith("_voltage_peak_v")})
+        names = list(dict.fromkeys(key[:-len("_voltage_peak_v")] for _, e in tuner["rows"] for key in e
+                                   if key.endswith("_voltage_peak_v")))  # radio side first, as the budget
         if names:
             parts.append({"label": tuner["label"], "parts": [n.replace("_", " ") for n in names], "rows": [
                 (label, [f"{e[n + '_voltage_peak_v']:.0f} V / {e[n + '_current_rms_a']:.2f} A" for n in names])

@@ -84,7 +84,7 @@ def label_columns(ax, rho, labels):
             # level to just past the rim, then to the label: the levels keep the order of the
             # heights, so that no two leaders cross
             ax.plot([point.real, sign * LEADER_ELBOW_X, x - sign * 0.03], [point.imag, point.imag, height],
-                    color="0.45", linewidth=0.7, gid="smith-leader")
+                    color="0.45", linewidth=0.7, gid=f"smith-leader-{len(texts)}")  # ids are unique in an SVG
             texts.append(ax.annotate(label, (x, height), ha="left" if sign > 0 else "right", va="center",
                                      fontsize=10, annotation_clip=False))
     return texts
@@ -126,8 +126,8 @@ def draw_smith(ax, data, colour):
     ax.set_aspect("equal")
     ax.set_xlim(-CHART_HALF_WIDTH, CHART_HALF_WIDTH)
     ax.set_ylim(-1.25, 1.25)
-    ax.set_xlabel(f"Re ρ [1], ρ = (Z − {z_ref:g} Ω)/(Z + {z_ref:g} Ω)")
-    ax.set_ylabel("Im ρ [1]")
+    ax.set_xlabel(f"Re ρ, where ρ = (Z − {z_ref:g} Ω)/(Z + {z_ref:g} Ω)")
+    ax.set_ylabel("Im ρ")
     against = (f"{z_ref:g} Ω, the nominal impedance of {data.reference_line}" if data.reference_line
                else f"{z_ref:g} Ω, the station's reference impedance")
     ax.set_title(f"Smith chart normalised to {against}\n(circles: constant r, arcs: constant x)", fontsize=11)
