@@ -1,5 +1,6 @@
-"""A wire antenna on 11 bands of 3 points each (33 frequencies): the budget with the model,
-against the bare engine run it makes (the same wires and cards, no linecalc around them).
+"""A wire antenna on 11 bands of 3 points each (33 frequencies): `budget --sweep 3` and a
+budget of 33 rows with the model, against the bare engine run it makes (the same wires and
+cards, no linecalc around them).
 
     .venv/bin/python bench/bench_wire.py
 
@@ -48,10 +49,12 @@ def main():
         swept = dataclasses.replace(station, frequency_hz=f, labels=tuple(f"{x:g}" for x in f),
                                     band_edges_hz=(None,) * f.size)
         full = least(lambda: linecalc.solve_budget(swept))
+        sweep = least(lambda: linecalc.solve_budget(station, sweep_points=3))
         engine = least(lambda: wire_antenna._engine_run(station.antenna, sorted(f), True))
         bare = least(lambda: wire_antenna._engine_run(station.antenna, sorted(f), False))
         segments = sum(count for *_, count in wire_antenna.wires(station.antenna)[0])
-        print(f"{ground:>8} ground, {f.size} frequencies, {segments} segments: budget {full:.2f} s, "
+        print(f"{ground:>8} ground, {f.size} frequencies, {segments} segments: budget --sweep 3 {sweep:.2f} s "
+              f"(far field at the 11 band centres only), budget of 33 rows {full:.2f} s, "
               f"engine with pattern {engine:.2f} s ({full / engine:.2f}x), impedance only {bare:.2f} s "
               f"(pattern costs {engine / bare:.2f}x), {1000 * engine / f.size:.0f} ms per frequency")
 

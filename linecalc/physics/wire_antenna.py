@@ -105,7 +105,7 @@ class WireAntenna:
 
     def impedance_at(self, frequency_hz):
         """Feedpoint impedance [ohm] at ``frequency_hz`` [Hz] (solved, or from this process's cache)."""
-        return solve(self, frequency_hz).impedance_ohm
+        return solve(self, frequency_hz, pattern=False).impedance_ohm  # a solved pattern is cached too
 
 
 @dataclass(frozen=True)

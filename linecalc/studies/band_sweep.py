@@ -106,7 +106,8 @@ def solve_band_sweeps(station: Station, points: int) -> tuple[BudgetResult, list
     set_at = np.concatenate([np.full(part.stop - part.start, part.start + np.argmin(np.abs(frequency_hz[part] - f)))
                              for part, f in zip(slices, station.frequency_hz)])
     result = solve_budget(dataclasses.replace(station, labels=labels, frequency_hz=frequency_hz,
-                                              band_edges_hz=(None,) * len(labels), tuner_set_at=set_at))
+                                              band_edges_hz=(None,) * len(labels), tuner_set_at=set_at),
+                          far_field=False)  # the sweep's points report no exposure
     held = tuple(e.label for e in station.feed if e.kind == "tuner" and e.held)
     sweeps = []
     for label, part in zip(station.labels, slices):

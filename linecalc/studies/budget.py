@@ -335,7 +335,7 @@ def _element_budgets(station, solution, designs, db_below_radio, dissipated_w, s
     return elements, warnings
 
 
-def solve_budget(station: Station) -> BudgetResult:
+def solve_budget(station: Station, *, far_field: bool = True) -> BudgetResult:
     """Solve the station's feed path at every requested frequency and split the losses.
 
     Stages: antenna reflection -> chain matrices -> path solution -> per-element shares ->
@@ -345,6 +345,11 @@ def solve_budget(station: Station) -> BudgetResult:
     Parameters
     ----------
     station : Station
+    far_field : bool
+        For a wire antenna, whether the engine also computes the far field for the peak gain
+        that the exposure distances use. A band sweep, whose points report no exposure, leaves it
+        out (it is a fifth of the engine's time over real ground); its exposure figures then use
+        the station's stated ``gain``.
 
     Returns
     -------
@@ -355,6 +360,12 @@ def solve_budget(station: Station) -> BudgetResult:
     swr_only = isinstance(station.antenna, SwrTable)  # the phase of the antenna is unknown
     work_size.check_station(station)
 
+    gain_dbi, wire_facts = station.antenna_gain_dbi, {}
+    if isinstance(station.antenna, WireAntenna):  # first: the impedance below is then cached
+        model = wire_antenna.solve(station.antenna, f, pattern=far_field)
+        if far_field:
+            gain_dbi = model.peak_gain_dbi
+        wire_facts = {"peak_gain_dbi": model.peak_gain_dbi, "wire_loss_db": model.wire_loss_db}
     measured_facts, measured_warnings = {}, []
     if isinstance(station.antenna, MeasuredAntenna):
         load, measured_facts, measured_warnings = measured_antenna_load(station, f)
@@ -362,11 +373,6 @@ def solve_budget(station: Station) -> BudgetResult:
         rho_antenna = load if swr_only else _antenna_rho(load, f, z_ref)
     else:
         rho_antenna = _antenna_rho(station.antenna, f, z_ref)
-    gain_dbi, wire_facts = station.antenna_gain_dbi, {}
-    if isinstance(station.antenna, WireAntenna):
-        model = wire_antenna.solve(station.antenna, f)
-        gain_dbi, wire_facts = model.peak_gain_dbi, {"peak_gain_dbi": model.peak_gain_dbi,
-                                                     "wire_loss_db": model.wire_loss_db}
     abcd_list, designs = _chain_matrices(station.feed, f, rho_antenna, z_ref, station.tuner_set_at)
     try:
         solution = solve_path(abcd_list, rho_antenna, z_ref, station.radio_power_w)

@@ -59,14 +59,20 @@ def test_budget_solves_rows_in_one_run_and_reuses_them(monkeypatch, doublet):
     wire_antenna.clear_cache()
     runs = []
     engine = wire_antenna._engine_run
-    monkeypatch.setattr(wire_antenna, "_engine_run", lambda *a: runs.append(len(a[1])) or engine(*a))
+    monkeypatch.setattr(wire_antenna, "_engine_run", lambda *a: runs.append((len(a[1]), a[2])) or engine(*a))
     station = linecalc.load_station(doublet)
     result = linecalc.solve_budget(station)
-    assert runs == [2]
+    assert runs == [(2, True)]  # the rows with their far field, for the exposure's peak gain
     linecalc.solve_budget(station)
-    assert runs == [2]  # cached within the process
+    assert runs == [(2, True)]  # cached within the process
     swept = linecalc.solve_budget(station, sweep_points=3)
-    assert runs == [2, 4]  # the band edges in one more run; the centres are the rows, already solved
+    # the band edges in one more run, without the far field that a sweep point does not report;
+    # the centres are the rows, already solved
+    assert runs == [(2, True), (4, False)]
+    # and the rows themselves, peak gain included, are those of the budget without the sweep
+    plain_rows = json.loads(json.dumps(result.to_dict()))["rows"]
+    swept_rows = [{k: v for k, v in row.items() if k != "sweep"} for row in json.loads(json.dumps(swept.to_dict()))["rows"]]
+    assert swept_rows == plain_rows
     assert set(result.to_dict()["rows"][0]["wire"]) == {"peak_gain_dbi", "wire_loss_db", "wire_heat_w"}
     assert swept.to_dict()["antenna_gain_dbi"] is None
 
