@@ -7,6 +7,8 @@ file, line and key path, as the command prints it.
 """
 from __future__ import annotations
 
+import dataclasses
+
 from pathlib import Path
 
 from linecalc.errors import InputError, StationError
@@ -60,11 +62,9 @@ def solve_budget(station: Station, *, sweep_points: int | None = None, explain: 
         if sweep_points is not None:
             result = _with_sweeps(result, *solve_band_sweeps(station, sweep_points))
         if uncertainty is not None:
-            try:
-                spread = uncertainty_study.budget_spread(station, result, uncertainty)
-            except work_size.WorkTooLarge as exc:
-                raise UncertaintyError(str(exc)) from None
-            result = _with_uncertainty(result, spread)
+            spread = _spread(uncertainty_study.budget_spread, station, result, uncertainty)
+            result = dataclasses.replace(result, uncertainty=spread,
+                                         warnings=result.warnings + tuple(uncertainty_study.spread_warnings(spread)))
         if explain:
             result = explain_study.with_explanations(
                 result, explain_study.explain_budget(result, explain_study.own_alternatives(station)))
@@ -75,12 +75,13 @@ class UncertaintyError(InputError):
     """An uncertainty run too large for memory (the message gives the estimate)."""
 
 
-def _with_uncertainty(result, spread):
-    """The budget with the spread of its figures, and the warnings of the uncertainty run after its own."""
-    import dataclasses
-
-    return dataclasses.replace(result, uncertainty=spread,
-                               warnings=result.warnings + tuple(uncertainty_study.spread_warnings(spread)))
+def _spread(solve_spread, *args):
+    """``solve_spread(*args)``, the spread of an uncertainty run; one too large for memory is an
+    `UncertaintyError` (the message gives the estimate)."""
+    try:
+        return solve_spread(*args)
+    except work_size.WorkTooLarge as exc:
+        raise UncertaintyError(str(exc)) from None
 
 
 class SweepPointsError(InputError):
@@ -101,8 +102,6 @@ def _check_sweep_points(station, sweep_points):
 def _with_sweeps(result, swept, sweeps):
     """The budget with its band sweeps, and the warnings of the sweep (a tuner that cannot match
     at some of its points) after its own."""
-    import dataclasses
-
     return dataclasses.replace(result, sweeps=tuple(sweeps), warnings=result.warnings + swept.warnings)
 
 
@@ -139,13 +138,8 @@ def solve_compare(station: Station, *, cables=(), tuner_positions=False, main_li
                 comparison = explain_study.with_explanations(comparison, explain_study.explain_compare(comparison))
             if uncertainty is None:
                 return comparison
-            import dataclasses
-
-            try:
-                spread = uncertainty_study.compare_spread(comparison, alternatives, uncertainty)
-            except work_size.WorkTooLarge as exc:
-                raise UncertaintyError(str(exc)) from None
-            return dataclasses.replace(comparison, uncertainty=spread)
+            return dataclasses.replace(comparison, uncertainty=_spread(uncertainty_study.compare_spread, comparison,
+                                                                       alternatives, uncertainty))
     except compare_study.CompareError as exc:
         raise located(station, budget.BudgetError(str(exc), "compare"),
                       station.key_lines.get("compare") or station.key_lines.get("feed", 1)) from None
@@ -188,13 +182,8 @@ def solve_feedpoint(station: Station, *, uncertainty=None) -> measured.Feedpoint
         result = measured.solve_feedpoint(station)
         if uncertainty is None:
             return result
-        import dataclasses
-
-        try:
-            spread = uncertainty_study.feedpoint_spread(station, result, uncertainty)
-        except work_size.WorkTooLarge as exc:
-            raise UncertaintyError(str(exc)) from None
-        return dataclasses.replace(result, uncertainty=spread)
+        return dataclasses.replace(result, uncertainty=_spread(uncertainty_study.feedpoint_spread, station, result,
+                                                               uncertainty))
 
 
 def solve_advice(station: Station, *, line=None, length_from_m=5.0, length_to_m=60.0, step_m=0.01,
