@@ -56,8 +56,17 @@ def swr_only_result():
 
 
 @pytest.fixture(scope="session")
-def tuner_result():
-    return _solve(TUNER, "tuner.yaml")
+def tuner_station():
+    from linecalc.io.station_file import parse_station_text
+
+    return parse_station_text(TUNER, "tuner.yaml")
+
+
+@pytest.fixture(scope="session")
+def tuner_result(tuner_station):
+    from linecalc.studies.budget import solve_budget
+
+    return solve_budget(tuner_station)
 
 
 @pytest.fixture(scope="session")

@@ -11,19 +11,6 @@ import linecalc
 from linecalc.render import plots
 from linecalc.studies import figure_data as fd
 
-# An invented demo-style station: a doublet behind a T tuner whose capacitors stop at 30 pF, so that
-# it cannot match on 3.6 MHz (the loads are invented, the usual shape of a doublet off resonance).
-TUNER = """\
-name: Tuner figure test
-radio: {power: 100 W}
-frequencies: [3.6 MHz, 7.1 MHz, 14.2 MHz]
-antenna:
-  impedance: {3.6 MHz: 95+j150, 7.1 MHz: 2400-j1700, 14.2 MHz: 1800+j1250}
-feed:
-  - tuner: {label: shack tuner, network: T, capacitance: {min: 10 pF, max: 30 pF}}
-  - line: {label: coax, cable: rg-8x, length: 30 m}
-"""
-
 # A station with a choke losing 9.9 dB (a burnt one) and no tuner, at legal-limit power.
 CHOKED = """\
 name: Lossy choke test
@@ -249,8 +236,8 @@ def test_a_lossy_choke_has_a_bar_of_its_own_and_power_labels_are_si(tmp_path):
         plots.si_watts(0.012) == "12 mW"
 
 
-def test_rows_where_the_tuner_cannot_match_are_marked_on_every_figure(tmp_path):
-    st = station(TUNER)
+def test_rows_where_the_tuner_cannot_match_are_marked_on_every_figure(tmp_path, tuner_station):
+    st = tuner_station  # a T tuner that cannot match on 3.6 MHz (tests/render/conftest.py)
     assert list(fd.tuner_states(linecalc.solve_budget(st))) == ["cannot match", "", ""]
     budget = draw("budget", st, tmp_path)
     assert "tuner cannot match" in budget.axes[1].get_xticklabels()[0].get_text()
