@@ -515,7 +515,7 @@ def plot_line_voltage(path, labels, position_m, voltage_v, *, rating_v=None, lin
         return _save(figure, path, force)
 
 
-def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, force=False):
+def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, tuner_state=None, force=False):
     """Watts at the antenna per band for each alternative, as grouped bars.
 
     Parameters
@@ -528,13 +528,18 @@ def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, force=Fal
         Alternative name -> watts at the antenna per band [W], in the order to draw.
     radio_power_w : float or None
         The radio's power [W], drawn as a dashed line when given.
+    tuner_state : mapping of str to sequence of str, or None
+        Alternative name -> per band, `linecalc.studies.figure_data.tuner_states` of that
+        alternative: its bars where its tuner cannot match or is in bypass are hatched and marked
+        above the bar, as on the SWR figure.
     force : bool
         Overwrite an existing file.
 
     Returns
     -------
     matplotlib.figure.Figure
-        One BarContainer per alternative, in the mapping's order.
+        One BarContainer per alternative, in the mapping's order; then, after the radio's line,
+        one line of markers per tuner state that occurs (labelled as `tuner_note` says).
     """
     _target(path, force)
     names = list(power_antenna_w)
@@ -548,18 +553,40 @@ def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, force=Fal
         ax = axes[0, 0]
         x = np.arange(len(labels))
         width = 0.8 / len(names)
+        marks = {figure_data.TUNER_UNMATCHED: ([], []), figure_data.TUNER_BYPASSED: ([], [])}
         for n, (name, watts) in enumerate(zip(names, values)):
-            ax.bar(x + (n - (len(names) - 1) / 2) * width, watts, width, color=_colour(n), label=name)
+            centre = x + (n - (len(names) - 1) / 2) * width
+            state = np.asarray(tuner_state[name] if tuner_state is not None and name in tuner_state
+                               else [""] * len(labels), dtype=object)
+            bars = ax.bar(centre, watts, width, color=_colour(n), label=name)
+            for bar, s in zip(bars, state):
+                if s in marks:
+                    bar.set_hatch("//" if s == figure_data.TUNER_UNMATCHED else "..")
+                    bar.set_edgecolor("white")
+                    marks[s][0].append(bar.get_x() + bar.get_width() / 2)
+                    marks[s][1].append(bar.get_height())
         if radio_power_w is not None:
             ax.axhline(radio_power_w, color="black", linestyle="--", linewidth=1.2,
                        label=f"radio {radio_power_w:g} W")
             ax.set_ylim(top=radio_power_w * 1.12)
+        for marked, style in ((figure_data.TUNER_UNMATCHED, {"marker": "x", "color": "#d62728"}),
+                              (figure_data.TUNER_BYPASSED, {"marker": "|", "color": "0.3"})):
+            if marks[marked][0]:
+                ax.plot(*marks[marked], linestyle="none", markersize=8, markeredgewidth=1.6,
+                        label=f"{tuner_note(marked)} (hatched)", **style)
         ax.set_xticks(x, labels)
         ax.set_xlabel("band")
         ax.set_ylabel("power at the antenna [W]")
         ax.set_title("Watts at the antenna for each alternative", loc="left")
         ax.grid(True, axis="y", alpha=0.3)
-        ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        from matplotlib.patches import Patch
+
+        # an alternative's legend entry is a plain patch of its colour, not its first bar (which
+        # may be hatched)
+        handles, texts = ax.get_legend_handles_labels()
+        plain = {name: Patch(facecolor=_colour(n)) for n, name in enumerate(names)}
+        ax.legend([plain.get(text, handle) for handle, text in zip(handles, texts)], texts, loc="upper left",
+                  bbox_to_anchor=(1.01, 1.0))
         return _save(figure, path, force)
 
 
@@ -584,7 +611,7 @@ def draw(data, path, *, force=False):
                                      tuner_state=data.tuner_state, force=force)
         if isinstance(data, figure_data.CompareWatts):
             return plot_compare(path, data.labels, data.power_antenna_w, radio_power_w=data.radio_power_w,
-                                force=force)
+                                tuner_state=data.tuner_state, force=force)
         return plot_loss_budget(path, data, force=force)
     except PlotExistsError as exc:
         raise figure_data.PlotProblem(f"{path}: exists; use --force to replace it ({exc})") from None

@@ -76,6 +76,7 @@ class CompareWatts:
     labels: list
     power_antenna_w: dict
     radio_power_w: float
+    tuner_state: dict | None = None  # per alternative (name -> array of str), `tuner_states` of its rows
 
 
 def tuner_states(result: BudgetResult, feed=None, held_at=None) -> np.ndarray:
@@ -187,4 +188,5 @@ def _compare_watts(station, spec) -> CompareWatts:
     comparison = compare(station, alternatives_from_spec(station, spec))
     return CompareWatts(list(comparison.labels),
                         {name: comparison.power_antenna_w[k] for k, name in enumerate(comparison.names)},
-                        station.radio_power_w)
+                        station.radio_power_w,
+                        {name: tuner_states(result) for name, result in zip(comparison.names, comparison.results)})

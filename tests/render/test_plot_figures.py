@@ -268,6 +268,51 @@ def test_compare_plot_options_on_the_command_line(cli, data_path, tmp_path):
     assert code == 2 and out == "" and err.startswith("linecalc plot: --cable:")
 
 
+# A radio's built-in tuner (an L network that tunes up to 3:1 only): on 7.1 MHz the antenna is
+# matched already (SWR 1, the tuner stays in bypass), on 14.2 MHz it is 8:1 at the antenna (far past
+# 3:1 after 10 m of coax: it cannot match). Invented loads.
+BUILTIN = """\
+name: Built-in tuner compare test
+radio: {power: 100 W}
+frequencies: [7.1 MHz, 14.2 MHz]
+antenna:
+  impedance: {7.1 MHz: 50+j0, 14.2 MHz: 400+j0}
+feed:
+  - tuner: {label: radio tuner, network: builtin}
+  - line: {label: coax, cable: rg-213, length: 10 m}
+"""
+
+
+def test_compare_marks_each_alternative_where_its_tuner_is_bypassed_or_cannot_match(tmp_path):
+    st = station(BUILTIN)
+    comparison = linecalc.solve_compare(st, cables=["rg-58"], tuner_positions=True)
+    states = [list(fd.tuner_states(result)) for result in comparison.results]
+    # RG-58 class coax is not quite 50 ohm: through it the matched antenna needs a little tuning,
+    # so only the other two alternatives leave the tuner in bypass on 7.1 MHz
+    assert states == [["bypassed", "cannot match"], ["", "cannot match"], ["bypassed", "cannot match"]]
+    figure = draw("compare", st, tmp_path, cables=["rg-58"], tuner_positions=True)
+    ax = figure.axes[0]
+    hatch = {"": "", "bypassed": "..", "cannot match": "//"}
+    for container, row_states in zip(ax.containers, states):
+        assert [bar.get_hatch() or "" for bar in container] == [hatch[s] for s in row_states]
+    marks = {line.get_label(): line for line in ax.lines}
+    assert len(marks["tuner cannot match (hatched)"].get_xdata()) == 3  # every alternative on 14.2 MHz
+    bypass_x = marks["tuner in bypass (hatched)"].get_xdata()
+    centres = [[bar.get_x() + bar.get_width() / 2 for bar in container] for container in ax.containers]
+    np.testing.assert_allclose(bypass_x, [centres[0][0], centres[2][0]])  # over the bypassed bars only
+    legend = [t.get_text() for t in ax.get_legend().get_texts()]
+    assert legend[-3:] == list(comparison.names)
+    # an alternative's legend patch stays plain even where its first bar is hatched
+    assert not any(patch.get_hatch() for patch in ax.get_legend().get_patches())
+
+
+def test_compare_without_tuner_marks_nothing(tmp_path, data_path):
+    figure = draw("compare", linecalc.load_station(data_path("hilltop-dipole.yaml")), tmp_path, cables=["rg-58"])
+    ax = figure.axes[0]
+    assert not any(bar.get_hatch() for container in ax.containers for bar in container)
+    assert not any("tuner" in line.get_label() for line in ax.lines)
+
+
 # --- stations that budget solves never end in an internal error ----------------------------
 
 @pytest.mark.parametrize("text", [LONG, SHORTED], ids=["1000 km line", "shorted antenna"])
