@@ -18,6 +18,7 @@ import re
 from dataclasses import dataclass
 
 from linecalc.render.explanations import TOPIC_HEADINGS
+from linecalc.render.tables import HEAT_NOTE
 
 # What each figure shows, in the order of the page: (kind, title, caption).
 FIGURES = (
@@ -63,6 +64,11 @@ def _db(value):
 
 def _watts(value, digits=1):
     return "n/a" if value is None or not math.isfinite(value) else f"{value:.{digits}f}"
+
+
+def _margin(value):
+    """A rating margin to one decimal; n/a for null (a line that carries no current does not heat)."""
+    return "n/a" if value is None else f"{value:.1f}"
 
 
 def _distance(value, near_field_m):
@@ -162,7 +168,10 @@ def _safety_view(doc):
             (label, f"{e['voltage_max_rms_v']:.0f}", f"{e['voltage_max_peak_v']:.0f}", f"{e['voltage_max_at_m']:.1f}",
              f"{e['current_max_rms_a']:.2f}", f"{e['current_max_at_m']:.1f}",
              f"{e['voltage_margin']:.1f}" if "voltage_margin" in e else "no rating",
-             f"{e['power_margin']:.1f}" if "power_margin" in e else "no rating") for label, e in line["rows"]]})
+             _margin(e["power_margin"]) if "power_margin" in e else "no rating",
+             f"{e['heat_max_w_per_m']:.2f} / " + (f"{e['heat_rating_w_per_m']:.2f}" if "heat_rating_w_per_m" in e
+                                                  else "no rating"))
+            for label, e in line["rows"]]})
     parts = []
     for tuner in _by_element(rows, "tuner"):
         names = list(dict.fromkeys(key[:-len("_voltage_peak_v")] for _, e in tuner["rows"] for key in e
@@ -276,4 +285,4 @@ def report_html(budget_doc, *, figures, version, generated, station_text=None, s
         cautions=list(budget_doc.get("cautions", ())),
         explanations=_explanations(budget_doc, compare_doc), version=version,
         generated=generated.strftime("%Y-%m-%d %H:%M UTC"), station_text=station_text, source_name=source_name,
-        swr_only_note=SWR_ONLY_NOTE, near_field_note=NEAR_FIELD_NOTE)
+        swr_only_note=SWR_ONLY_NOTE, near_field_note=NEAR_FIELD_NOTE, heat_note=HEAT_NOTE[0].upper() + HEAT_NOTE[1:] + ".")

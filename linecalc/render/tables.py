@@ -134,6 +134,11 @@ def _watts(value):
     return f"{value:.1f}" if math.isfinite(value) else "n/a"
 
 
+# The note under each line's stress table, in the text and on the HTML report's page.
+HEAT_NOTE = ("hottest W/m: heat per metre at the line's hottest point at average power / what its rating "
+             f"allows there (a library rating is for the cable alone in still air at {AMBIENT_C:g} degC)")
+
+
 def safety_table(result: BudgetResult) -> str:
     """Voltage and current maxima on each line and tuner part at PEP, exposure distances per row,
     and the cautions."""
@@ -156,8 +161,7 @@ def safety_table(result: BudgetResult) -> str:
                       tabulate(body, headers=["row", "V max RMS", "V max peak", "at m", "I max RMS A", "at m",
                                               "voltage margin", "power margin", "hottest W/m avg / rated"],
                                disable_numparse=True, stralign="right"),
-                      "hottest W/m: heat per metre at the line's hottest point at average power / what its rating "
-                      f"allows there (a library rating is for the cable alone in still air at {AMBIENT_C:g} degC)", ""]
+                      HEAT_NOTE, ""]
         elif e.kind == "tuner":
             parts = list(dict.fromkeys(key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings  # radio side first
                                         if key.endswith("_voltage_peak_v")))

@@ -4,6 +4,7 @@ those), the escaping of every string from the station, and the explanations it l
 document carries them."""
 from __future__ import annotations
 
+import copy
 import datetime
 import html
 import json
@@ -195,6 +196,32 @@ def test_safety_section_holds_the_cautions_and_the_stress(doublet, doublet_doc):
     assert len(page.tables["tuner-stress-table"]) == 9
     exposure_header, *exposure = page.tables["exposure-table"]
     assert "ICNIRP 2020 public m" in exposure_header and len(exposure) == 8
+
+
+def test_line_stress_shows_the_heat_at_the_hottest_point_against_the_rating(doublet, doublet_doc):
+    # the columns `linecalc safety` prints (render/tables.py safety_table), from the same JSON keys
+    _, page = doublet
+    header, *body = page.tables["line-stress-table"]
+    assert header[-2:] == ["power margin", "hottest W/m avg / rated"]
+    for cells, row in zip(body, doublet_doc["rows"]):
+        line = row["elements"][2]  # the window line (tests/data/orchard-doublet.yaml)
+        assert line["kind"] == "line" and "heat_rating_w_per_m" in line
+        assert cells[-2] == f"{line['power_margin']:.1f}"
+        assert cells[-1] == f"{line['heat_max_w_per_m']:.2f} / {line['heat_rating_w_per_m']:.2f}"
+    assert "Hottest W/m: heat per metre at the line's hottest point at average power" in page.text
+
+
+def test_line_stress_of_a_line_without_ratings_or_current(doublet_doc):
+    doc = copy.deepcopy(doublet_doc)
+    lines = [e for row in doc["rows"] for e in row["elements"] if e["kind"] == "line"]
+    lines[0]["power_margin"] = None  # a line that carries no current does not heat (docs/json.md)
+    for line in lines[1:]:
+        for key in ("voltage_margin", "power_margin", "heat_rating_w_per_m", "power_rating_w", "heating_power_w"):
+            line.pop(key, None)
+    page = Page(html_report.report_html(doc, figures=[], version="0", generated=GENERATED))
+    _, first, second, *_ = page.tables["line-stress-table"]
+    assert first[-2] == "n/a"
+    assert second[-3:] == ["no rating", "no rating", f"{lines[1]['heat_max_w_per_m']:.2f} / no rating"]
 
 
 def test_warnings_are_all_on_the_page(doublet, data_path):
