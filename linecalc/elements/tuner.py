@@ -65,7 +65,9 @@ class Tuner(PartDefaults):
         return np.zeros(np.shape(frequency_hz))
 
     def readings(self, voltage_v, current_a, phase_mean, design):
-        """Part values [pF, uH], heat in each part [W], whether it matched and its SWR at the input."""
+        """Part values [pF, uH], heat in each part [W], whether it matched and its SWR at the input.
+        A part that a row's network leaves out (an L network uses two of its parts, a bypass none)
+        has NaN for its value and its heat on that row."""
         heat = component_dissipation_w(design, voltage_v, current_a)
         values = {}
         phases = design.matched.ndim > 1  # an SWR-only antenna: one setting per phase of its reflection
@@ -80,7 +82,11 @@ class Tuner(PartDefaults):
                                                                axis=0) * scale
             else:
                 values[f"{part.name}_{unit}"] = part.value * scale
-            values[f"{part.name}_dissipated_w"] = phase_mean(heat[part.name])
+            # a part the row's network leaves out holds no heat to report: NaN (null in JSON), as
+            # its value; over the phases of an SWR-only antenna, NaN only where no phase uses it
+            absent = np.isnan(part.value)
+            mean = phase_mean(np.where(absent, 0.0, heat[part.name]))
+            values[f"{part.name}_dissipated_w"] = np.where(np.all(absent, axis=0) if phases else absent, np.nan, mean)
         if phases:
             values["matched_share"] = design.matched.mean(axis=0)
         arrangement = design.arrangement

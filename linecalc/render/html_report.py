@@ -178,7 +178,8 @@ def _safety_view(doc):
                                    if key.endswith("_voltage_peak_v")))  # radio side first, as the budget
         if names:
             parts.append({"label": tuner["label"], "parts": [n.replace("_", " ") for n in names], "rows": [
-                (label, [f"{e[n + '_voltage_peak_v']:.0f} V / {e[n + '_current_rms_a']:.2f} A" for n in names])
+                (label, [f"{e[n + '_voltage_peak_v']:.0f} V / {e[n + '_current_rms_a']:.2f} A"
+                         if e.get(n + "_dissipated_w") is not None else "" for n in names])  # "": not in the network
                 for label, e in tuner["rows"]]})
     exposure = []
     for row in rows:

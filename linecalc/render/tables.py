@@ -165,9 +165,12 @@ def safety_table(result: BudgetResult) -> str:
         elif e.kind == "tuner":
             parts = list(dict.fromkeys(key.rsplit("_voltage_peak_v", 1)[0] for key in e.readings  # radio side first
                                         if key.endswith("_voltage_peak_v")))
+            # a part the row's network leaves out (its heat is NaN) is an empty cell, not 0 V / 0 A
             body = [[label] + [f"{e.readings[p + '_voltage_peak_v'][i]:.0f} V / {e.readings[p + '_current_rms_a'][i]:.2f} A"
-                               for p in parts] for i, label in enumerate(result.labels)]
-            lines += [f"{named_first('tuner', e.label)} parts at PEP (peak volts across / RMS amperes through):",
+                               if np.isfinite(e.readings[p + "_dissipated_w"][i]) else "" for p in parts]
+                    for i, label in enumerate(result.labels)]
+            lines += [f"{named_first('tuner', e.label)} parts at PEP (peak volts across / RMS amperes through; "
+                      "empty where the row's network leaves the part out):",
                       tabulate(body, headers=["row", *(p.replace("_", " ") for p in parts)], disable_numparse=True), ""]
     x = result.exposure
     if x:

@@ -37,6 +37,20 @@ feed:
   - line: {label: coax, cable: rg-8x, length: 30 m}
 """
 
+# An L tuner behind 5 m of coax: on 3.6 MHz the antenna is matched already (the tuner stays in
+# bypass, no part in circuit), on 7.1 and 14.2 MHz it uses two of its parts, not the same two
+# (invented loads).
+L_TUNER = """\
+name: L tuner render test
+radio: {power: 100 W}
+frequencies: [3.6 MHz, 7.1 MHz, 14.2 MHz]
+antenna:
+  impedance: {3.6 MHz: 50+j0, 7.1 MHz: 300-j200, 14.2 MHz: 12+j30}
+feed:
+  - tuner: {label: shack tuner, network: L}
+  - line: {label: coax, cable: rg-213, length: 5 m}
+"""
+
 
 def _solve(text, name):
     from linecalc.io.station_file import parse_station_text
@@ -67,6 +81,11 @@ def tuner_result(tuner_station):
     from linecalc.studies.budget import solve_budget
 
     return solve_budget(tuner_station)
+
+
+@pytest.fixture(scope="session")
+def l_tuner_result():
+    return _solve(L_TUNER, "l-tuner.yaml")
 
 
 @pytest.fixture(scope="session")

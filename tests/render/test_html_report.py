@@ -211,6 +211,18 @@ def test_line_stress_shows_the_heat_at_the_hottest_point_against_the_rating(doub
     assert "Hottest W/m: heat per metre at the line's hottest point at average power" in page.text
 
 
+def test_tuner_stress_cell_is_empty_where_the_network_leaves_the_part_out(l_tuner_result):
+    doc = l_tuner_result.to_dict()  # an L tuner: in bypass on 3.6 MHz, two parts on the other rows
+    page = Page(html_report.report_html(doc, figures=[], version="0", generated=GENERATED))
+    header, *body = page.tables["tuner-stress-table"]
+    for cells, row in zip(body, doc["rows"]):
+        entry = row["elements"][0]
+        for name, cell in zip(header[1:], cells[1:]):
+            assert (cell == "") == (entry[name.replace(" ", "_") + "_dissipated_w"] is None), (cells, name)
+    assert body[0][1:] == [""] * (len(header) - 1) and all(cells.count("") == 1 for cells in body[1:])
+    assert "the row's network leaves the part out" in page.text
+
+
 def test_line_stress_of_a_line_without_ratings_or_current(doublet_doc):
     doc = copy.deepcopy(doublet_doc)
     lines = [e for row in doc["rows"] for e in row["elements"] if e["kind"] == "line"]
