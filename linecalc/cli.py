@@ -258,12 +258,18 @@ def _export_radio(args, station, result):
 def _run_budget(args) -> int:
     """One station: its result, or its error. Several: every result that can be had, each error on
     stderr, and exit status 2 if any station failed."""
+    from pathlib import Path
+
     from linecalc import api
     from linecalc.render import csv_text, json_text, tables
 
     paths = _station_paths(args.station)
     if not paths:
         raise OptionError(f"no station files (*.yaml) in {', '.join(args.station)}")
+    # a batch (an array in JSON, a station column in CSV, errors reported and passed over) is any
+    # folder, or more than one file, whatever number of stations it holds: the form of the output
+    # follows the command line, not the folder's contents
+    batch = len(args.station) > 1 or any(Path(a).is_dir() for a in args.station)
     if args.radio_s1p is not None and len(paths) > 1:
         raise OptionError("--radio-s1p: give exactly one station")
     if args.sweep is not None and args.sweep < 2:
@@ -286,23 +292,23 @@ def _run_budget(args) -> int:
             except api.UncertaintyError as exc:
                 raise OptionError(f"--draws: {exc}") from None
         except StationError as exc:
-            if len(paths) == 1:
+            if not batch:
                 raise
             print(str(exc), file=sys.stderr)
             failed = True
         except Exception as exc:  # a fault of linecalc's on one station of a batch: named, the others go on
-            if len(paths) == 1 or isinstance(exc, InputError) or _Interrupt.received:
+            if not batch or isinstance(exc, InputError) or _Interrupt.received:
                 raise
             print(printable(f"{path}: internal error: {type(exc).__name__}: {exc}"), file=sys.stderr)
             internal = True
-    if args.radio_s1p is not None:
+    if args.radio_s1p is not None and results:  # a folder of one station that failed: nothing to export
         _export_radio(args, station, results[0])
     if args.format == "json":
         documents = [r.to_dict() for r in results]
-        sys.stdout.write(json_text.to_json(documents[0] if len(paths) == 1 else documents))
+        sys.stdout.write(json_text.to_json(documents if batch else documents[0]))
     else:
         if args.format == "csv":
-            sys.stdout.write(csv_text.budgets_csv(results) if len(paths) > 1 else csv_text.budget_csv(results[0]))
+            sys.stdout.write(csv_text.budgets_csv(results) if batch else csv_text.budget_csv(results[0]))
         else:
             from linecalc.render import uncertainty_text
 
@@ -311,11 +317,11 @@ def _run_budget(args) -> int:
                                        + _explanations(r) for r in results))
     for result in results:
         for warning in result.warnings:
-            prefix = f"{result.station}: " if len(paths) > 1 else ""
+            prefix = f"{result.station}: " if batch else ""
             print(f"warning: {prefix}{warning}", file=sys.stderr)
     if internal:
         return EXIT_INTERNAL
-    return EXIT_BAD_INPUT if len(paths) > 1 and failed else EXIT_OK
+    return EXIT_BAD_INPUT if batch and failed else EXIT_OK
 
 
 class OptionError(InputError):

@@ -63,6 +63,38 @@ def test_a_csv_of_several_stations_has_a_station_column(cli, write_file, tmp_pat
     assert [row[0] for row in rows if row[0] != "station"] == ["First, with a comma", "Second"]
 
 
+def test_a_folder_of_one_station_is_a_batch_and_a_file_is_one_document(cli, write_file, tmp_path):
+    # README and docs/json.md, Several stations: the form follows the command line (a folder or
+    # several files: an array), not the number of files the folder holds
+    folder = tmp_path / "one"
+    folder.mkdir()
+    station = folder / "a.yaml"
+    station.write_text(MISMATCHED.format(name="Only", cable="rg-213"))
+    code, out, err = cli("budget", folder, "--format", "json")
+    assert code == 0, err
+    documents = json.loads(out)
+    assert isinstance(documents, list) and [d["station"] for d in documents] == ["Only"]
+    assert err and all(line.startswith("warning: Only: ") for line in err.splitlines())  # named, as in a batch
+    code, out, err = cli("budget", station, "--format", "json")
+    assert code == 0, err
+    assert isinstance(json.loads(out), dict) and json.loads(out)["station"] == "Only"
+    code, out, err = cli("budget", folder, "--format", "csv")
+    assert code == 0 and out.startswith("station,label,"), err
+    code, out, err = cli("budget", station, station, "--format", "json")  # two files: an array
+    assert code == 0 and [d["station"] for d in json.loads(out)] == ["Only", "Only"]
+
+
+def test_a_folder_of_one_broken_station_reports_it_and_prints_an_empty_array(cli, tmp_path):
+    # docs/json.md, Several stations: a failed file is left out of the array, exit status 2
+    folder = tmp_path / "broken"
+    folder.mkdir()
+    (folder / "a.yaml").write_text(MISMATCHED.format(name="Broken", cable="no-such-cable"))
+    code, out, err = cli("budget", folder, "--format", "json")
+    assert code == 2 and json.loads(out) == [] and err.startswith(str(folder / "a.yaml") + ":")
+    code, out, err = cli("budget", folder / "a.yaml", "--format", "json")  # one file: its error alone
+    assert code == 2 and out == "" and len(err.splitlines()) == 1
+
+
 def test_cables_json_gives_the_voltage_rating(cli):
     code, out, err = cli("cables", "--format", "json")
     assert code == 0, err
