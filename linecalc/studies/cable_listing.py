@@ -26,6 +26,8 @@ class CableListing:
         """The JSON document of ``linecalc cables --format json``."""
         return [{"id": c.id, "kind": c.kind, "z0_ohm": c.z0_nominal_ohm, "velocity_factor": c.velocity_factor,
                  "description": c.description, "max_voltage_v": c.max_voltage_v,
+                 # the keys below as numbers, in their order, for scripts that do not parse keys
+                 "frequencies_hz": [float(f) for f in self.frequency_hz],
                  "loss_db_per_100m": {f"{f:g}": 100 * float(loss) for f, loss in zip(self.frequency_hz, losses)},
                  "power_rating_w": None if np.all(np.isnan(ratings)) else
                  {f"{f:g}": float(p) for f, p in zip(self.frequency_hz, ratings)}}

@@ -23,6 +23,23 @@ def test_cables_json_gives_power_ratings_at_the_listing_frequencies(cli, library
         assert np.all(values > 0) and np.all(np.diff(values) < 0)
 
 
+def test_cables_json_gives_the_listing_frequencies_as_numbers_beside_the_keys(cli, library):
+    # docs/json.md, cables: the keys stay strings (the contract), frequencies_hz gives them as
+    # numbers in the same order: 3.6, 14.2, 28.5, 146 and 435 MHz (80 m, 20 m, 10 m, 2 m, 70 cm)
+    code, out, err = cli("cables", "--format", "json")
+    assert code == 0, err
+    for entry in json.loads(out):
+        assert entry["frequencies_hz"] == [3.6e6, 14.2e6, 28.5e6, 146e6, 435e6]
+        assert all(type(f) is float for f in entry["frequencies_hz"])
+        assert [float(key) for key in entry["loss_db_per_100m"]] == entry["frequencies_hz"]
+        if entry["power_rating_w"] is not None:
+            assert [float(key) for key in entry["power_rating_w"]] == entry["frequencies_hz"]
+        # read by position, as a script would: the loss at each number is the keyed value
+        np.testing.assert_allclose(list(entry["loss_db_per_100m"].values()),
+                                   100 * library[entry["id"]].matched_loss_db_per_m(np.array(entry["frequencies_hz"])),
+                                   rtol=1e-12)
+
+
 def test_cables_table_lists_power_and_voltage_ratings(cli, library):
     code, out, err = cli("cables")
     assert code == 0, err
