@@ -501,11 +501,11 @@ def plot_compare(path, labels, power_antenna_w, *, radio_power_w=None, tuner_sta
             ax.axhline(radio_power_w, color="black", linestyle="--", linewidth=1.2,
                        label=f"radio {radio_power_w:g} W")
             ax.set_ylim(top=radio_power_w * 1.12)
-        for marked, style in ((figure_data.TUNER_UNMATCHED, {"marker": "x", "color": "#d62728"}),
-                              (figure_data.TUNER_BYPASSED, {"marker": "|", "color": "0.3"})):
+        for marked, bar_text, style in ((figure_data.TUNER_UNMATCHED, "striped bar", {"marker": "x", "color": "#d62728"}),
+                                        (figure_data.TUNER_BYPASSED, "dotted bar", {"marker": "|", "color": "0.3"})):
             if marks[marked][0]:
                 ax.plot(*marks[marked], linestyle="none", markersize=8, markeredgewidth=1.6,
-                        label=f"{tuner_note(marked)} (hatched)", **style)
+                        label=f"{tuner_note(marked)} ({bar_text})", **style)
         ax.set_xticks(x, labels)
         ax.set_xlabel("band")
         ax.set_ylabel("power at the antenna [W]")

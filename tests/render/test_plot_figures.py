@@ -296,8 +296,8 @@ def test_compare_marks_each_alternative_where_its_tuner_is_bypassed_or_cannot_ma
     for container, row_states in zip(ax.containers, states):
         assert [bar.get_hatch() or "" for bar in container] == [hatch[s] for s in row_states]
     marks = {line.get_label(): line for line in ax.lines}
-    assert len(marks["tuner cannot match (hatched)"].get_xdata()) == 3  # every alternative on 14.2 MHz
-    bypass_x = marks["tuner in bypass (hatched)"].get_xdata()
+    assert len(marks["tuner cannot match (striped bar)"].get_xdata()) == 3  # every alternative on 14.2 MHz
+    bypass_x = marks["tuner in bypass (dotted bar)"].get_xdata()
     centres = [[bar.get_x() + bar.get_width() / 2 for bar in container] for container in ax.containers]
     np.testing.assert_allclose(bypass_x, [centres[0][0], centres[2][0]])  # over the bypassed bars only
     legend = [t.get_text() for t in ax.get_legend().get_texts()]
