@@ -63,7 +63,7 @@ def main():
             print(f"{ground:>8} ground, {f.size} frequencies, {segments} segments, {processes} process(es): "
                   f"budget --sweep 3 {sweep[processes]:.2f} s (far field at the 11 band centres only), budget of "
                   f"33 rows {full:.2f} s, engine with pattern {engine:.2f} s ({full / engine:.2f}x), impedance "
-                  f"only {bare:.2f} s (pattern costs {engine / bare:.2f}x), {1000 * engine / f.size:.0f} ms per "
+                  f"only {bare:.2f} s (pattern costs {engine / bare:.2f}x), {1000 * engine / f.size:.0f} ms of wall time per "
                   f"frequency")
         print(f"{ground:>8} ground: budget --sweep 3 split over 2 processes takes {sweep[2] / sweep[1]:.2f}x "
               "the serial time")

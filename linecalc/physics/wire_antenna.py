@@ -318,6 +318,11 @@ def split_cards(cards, processes):
     linear stepping), so the first of the rest is the first plus the step added k times, in
     the same double-precision arithmetic. Every frequency is then solved at the same value as
     in the uncut run.
+
+    References
+    ----------
+    Burke and Poggio, NEC-2 User's Guide (1981), the FR card (linear stepping: each frequency
+    the one before plus the increment).
     """
     total = sum(count for *_, count in cards)
     parts = max(1, min(processes, total // MIN_FREQUENCIES_PER_PROCESS))

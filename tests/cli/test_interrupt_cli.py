@@ -1,6 +1,7 @@
 """Ctrl-C ends a command with status 130 and one line, even where a compiled module's
 initialisation turns the KeyboardInterrupt into an ImportError (matplotlib's, while `plot`
-imports it, reports 'initialization failed')."""
+imports it, reports 'initialization failed'), and while the antenna engine's forked worker runs
+(which is ended with it); a bad LINECALC_ENGINE_PROCESSES, the worker's setting, is a usage error."""
 from __future__ import annotations
 
 import os
@@ -122,3 +123,16 @@ def test_ctrl_c_while_the_engine_worker_runs_ends_both(tmp_path):
             process.communicate()
     assert (process.returncode, out, err) == (cli_module.EXIT_INTERRUPTED, "", "linecalc: interrupted\n")
     assert not any(os.path.exists(f"/proc/{pid}") for pid in workers)  # killed and reaped by its parent
+
+
+def test_a_bad_engine_process_count_is_a_usage_error(tmp_path, cli, monkeypatch):
+    pytest.importorskip("PyNEC")
+    from linecalc.physics import wire_antenna
+
+    station = tmp_path / "doublet.yaml"
+    station.write_text(WIRE_STATION)
+    monkeypatch.setattr(wire_antenna, "_CACHE", {})  # nothing solved yet, so the engine must run
+    monkeypatch.setenv("LINECALC_ENGINE_PROCESSES", "two")
+    assert cli("budget", station) == (2, "", "linecalc budget: LINECALC_ENGINE_PROCESSES: a whole number of "
+                                             "processes for the antenna engine, 1 or more (1: no worker processes), "
+                                             "got 'two'\n")

@@ -131,6 +131,7 @@ def test_solved_points_are_cached_and_new_ones_solved_in_one_run(monkeypatch):
     runs = []
     engine = wa._engine_run
     monkeypatch.setattr(wa, "_engine_run", lambda *a: runs.append(a[1]) or engine(*a))
+    monkeypatch.setenv(wa.PROCESSES_VARIABLE, "1")  # each run whole in this process, where it is counted
     first = wa.solve(antenna, [13.9e6, 14.0e6, 14.2e6, 14.3e6])
     again = wa.solve(antenna, [14.0e6, 14.1e6, 14.3e6])
     assert len(runs) == 2 and runs[1] == [14.1e6]  # only the new point in the second run
