@@ -69,8 +69,10 @@ def test_ctrl_c_while_plot_imports_matplotlib(tmp_path, data_path):
     assert not output.exists() and list(tmp_path.iterdir()) == [tmp_path / "fake"]
 
 
-# A doublet over real ground on many bands: its engine run is shared with a forked worker
-# (linecalc.physics.wire_antenna) and lasts long enough (about a second) to be interrupted.
+# A doublet over real ground on many bands: its engine runs are shared with a forked worker
+# (linecalc.physics.wire_antenna). At 9 points a band (99 frequencies, about 4 s of engine work
+# on 2 processors) the command is still running when the test, however late it is scheduled,
+# sends Ctrl-C; it then ends after the engine card it is in (a fraction of a second).
 WIRE_STATION = """\
 name: Interrupted doublet
 region: 1
@@ -105,7 +107,7 @@ def test_ctrl_c_while_the_engine_worker_runs_ends_both(tmp_path):
     station.write_text(WIRE_STATION)
     environment = {key: value for key, value in os.environ.items() if key != "LINECALC_ENGINE_PROCESSES"}
     # its own session, so that Ctrl-C goes to its process group as a terminal sends it
-    process = subprocess.Popen([sys.executable, "-m", "linecalc", "budget", str(station), "--sweep", "3"],
+    process = subprocess.Popen([sys.executable, "-m", "linecalc", "budget", str(station), "--sweep", "9"],
                                stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, env=environment,
                                start_new_session=True)
     try:
