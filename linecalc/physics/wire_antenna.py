@@ -21,11 +21,13 @@ thin-wire kernel, over 2 with the extended kernel), and the GN, LD, EX, FR and R
 from __future__ import annotations
 
 import math
+import os
 from dataclasses import dataclass
 
 import numpy as np
 
 from linecalc.errors import InputError
+from linecalc.physics import process_split
 
 SPEED_OF_LIGHT = 299_792_458.0  # m/s, exact
 
@@ -51,6 +53,24 @@ PHI_STEP_DEG = 10.0
 # The most segments a model may have: the engine's matrix grows with their square (2,000
 # segments: 64 MB and seconds per frequency), so a larger model is refused, not attempted.
 MAX_SEGMENTS = 2000
+
+# Engine runs shared between processes (`linecalc.physics.process_split`): each frequency is
+# solved on its own and deterministically, so a run cut into parts, one per process, gives the
+# uncut run's numbers bit for bit. At most `DEFAULT_PROCESSES` processes unless the environment
+# variable `PROCESSES_VARIABLE` says otherwise (1: every run in this process), never more than
+# the machine's processors. A worker costs about 5 ms (the fork, the pickled result, the child's
+# first writes to memory it shares with its parent; measured on the 2-core development machine:
+# a run of 4 frequencies of 0.3 ms each took 1.1 ms serially and 5.6 ms split), so a run is
+# split only where that is paid back: at least `MIN_FREQUENCIES_PER_PROCESS` frequencies per
+# process, each costing several milliseconds, which is the case over Sommerfeld-Norton ground
+# (20 to 90 ms per frequency measured), with the far field (5 ms or more per frequency on the
+# 5 x 10 degree grid), or with at least `MIN_SEGMENTS_TO_SPLIT` segments (the matrix grows with
+# the square of the segments: 11 ms per frequency at 139 segments over perfect ground, so about
+# 2 ms at 60, and 0.1 ms at 11). Elsewhere the run stays in this process.
+DEFAULT_PROCESSES = 2
+PROCESSES_VARIABLE = "LINECALC_ENGINE_PROCESSES"
+MIN_FREQUENCIES_PER_PROCESS = 2
+MIN_SEGMENTS_TO_SPLIT = 60
 
 INSTALL_HINT = "python -m pip install 'linecalc[antenna]' (in the clone: .venv/bin/python -m pip install -e '.[antenna]')"
 
@@ -265,14 +285,105 @@ def _evenly_spaced_runs(frequency_hz):
     return runs
 
 
-def _engine_run(antenna, frequency_hz, pattern):
-    """One engine run over sorted, distinct frequencies [Hz]: impedance, wire loss [dB] and, with
-    ``pattern``, the peak gain [dBi] (NaN without)."""
+def engine_processes() -> int:
+    """How many processes an engine run may use: the whole number in the environment variable
+    `PROCESSES_VARIABLE` (1 or more) if it is set, else `DEFAULT_PROCESSES`; never more than the
+    machine's processors (``os.cpu_count()``, which `_engine_runs` applies to any number)."""
+    text = os.environ.get(PROCESSES_VARIABLE)
+    wanted = DEFAULT_PROCESSES
+    if text is not None:
+        try:
+            wanted = int(text.strip())
+        except ValueError:
+            wanted = 0
+        if wanted < 1:
+            raise InputError(f"{PROCESSES_VARIABLE}: a whole number of processes for the antenna engine, 1 or more "
+                             f"(1: no worker processes), got {text!r}")
+    return wanted
+
+
+def frequency_cards(frequency_hz):
+    """The frequency cards of an engine run over sorted, distinct frequencies [Hz]: one per run of
+    evenly spaced frequencies (`_evenly_spaced_runs`), as (first [MHz], step [MHz], count)."""
+    return [(first / 1e6, step / 1e6, count) for first, step, count in _evenly_spaced_runs(frequency_hz)]
+
+
+def split_cards(cards, processes):
+    """The cards of an engine run cut into up to ``processes`` parts of as equal a number of
+    frequencies as may be, each of at least `MIN_FREQUENCIES_PER_PROCESS` (fewer frequencies:
+    one part).
+
+    A card cut at its k-th frequency goes on from the frequency the engine itself would reach
+    there: it steps from the first by adding the step once per frequency (NEC-2's FR card,
+    linear stepping), so the first of the rest is the first plus the step added k times, in
+    the same double-precision arithmetic. Every frequency is then solved at the same value as
+    in the uncut run.
+
+    References
+    ----------
+    Burke and Poggio, NEC-2 User's Guide (1981), the FR card (linear stepping: each frequency
+    the one before plus the increment).
+    """
+    total = sum(count for *_, count in cards)
+    parts = max(1, min(processes, total // MIN_FREQUENCIES_PER_PROCESS))
+    sizes = [total // parts + (1 if k < total % parts else 0) for k in range(parts)]
+    queue = list(cards)
+    result = []
+    for size in sizes:
+        part = []
+        while size:
+            first, step, count = queue.pop(0)
+            taken = min(size, count)
+            part.append((first, step, taken))
+            if taken < count:
+                rest = first
+                for _ in range(taken):
+                    rest += step
+                queue.insert(0, (rest, step, count - taken))
+            size -= taken
+        result.append(part)
+    return result
+
+
+def _worth_splitting(antenna, pattern):
+    """Whether each frequency costs the engine enough to pay for a worker process (see
+    `MIN_SEGMENTS_TO_SPLIT`): real ground, the far field, or a large model."""
+    segments = sum(count for *_, count in wires(antenna)[0])
+    return antenna.ground.kind == "real" or pattern or segments >= MIN_SEGMENTS_TO_SPLIT
+
+
+def _engine_runs(antenna, frequency_hz, pattern, processes):
+    """`_engine_run` over sorted, distinct frequencies, its cards cut by `split_cards` into parts
+    solved at the same time in this process and in forked children
+    (`process_split.run_split`) where that is available and pays (`_worth_splitting`); the
+    results are the uncut run's."""
+    processes = min(processes, os.cpu_count() or 1)
+    cards = frequency_cards(frequency_hz)
+    parts = split_cards(cards, processes) if (processes > 1 and _worth_splitting(antenna, pattern)
+                                              and process_split.fork_available()) else [cards]
+    if len(parts) == 1:
+        return _engine_run(antenna, frequency_hz, pattern)
+    _import_engine()  # once, here, so that every child inherits it
+    bounds = np.cumsum([0] + [sum(count for *_, count in part) for part in parts])
+    works = [lambda k=k: _engine_run(antenna, frequency_hz[bounds[k]:bounds[k + 1]], pattern, parts[k])
+             for k in range(len(parts))]
+    results = process_split.run_split(works)
+    return tuple(np.concatenate([r[k] for r in results]) for k in range(3))
+
+
+def _import_engine():
     try:
         import PyNEC
     except ImportError:
         raise EngineMissing(f"a wire antenna needs the optional method-of-moments engine: {INSTALL_HINT}") from None
-    context = PyNEC.nec_context()
+    return PyNEC
+
+
+def _engine_run(antenna, frequency_hz, pattern, cards=None):
+    """One engine run over sorted, distinct frequencies [Hz]: impedance, wire loss [dB] and, with
+    ``pattern``, the peak gain [dBi] (NaN without). ``cards``: the frequency cards that give
+    these frequencies, `frequency_cards` by default."""
+    context = _import_engine().nec_context()
     geometry = context.get_geometry()
     model, feed_tag = wires(antenna)
     for tag, (a, b, count) in enumerate(model, start=1):
@@ -291,8 +402,8 @@ def _engine_run(antenna, frequency_hz, pattern):
     sky_deg = 180.0 if ground.kind == "free-space" else 90.0
     n_theta = int(round(sky_deg / THETA_STEP_DEG)) + 1
     n_phi = int(round(360.0 / PHI_STEP_DEG))
-    for first, step, count in _evenly_spaced_runs(frequency_hz):
-        context.fr_card(0, count, first / 1e6, step / 1e6)
+    for first_mhz, step_mhz, count in frequency_cards(frequency_hz) if cards is None else cards:
+        context.fr_card(0, count, first_mhz, step_mhz)
         if pattern:
             context.rp_card(0, n_theta, n_phi, 0, 5, 0, 0, 0.0, 0.0, THETA_STEP_DEG, PHI_STEP_DEG, 0.0, 0.0)
         else:
@@ -333,17 +444,23 @@ def _wire_heat_w(current_a, segment_m, frequency_hz, antenna):
 _CACHE: dict = {}
 
 
-def solve(antenna: WireAntenna, frequency_hz, pattern=True) -> WireSolution:
+def solve(antenna: WireAntenna, frequency_hz, pattern=True, processes=None) -> WireSolution:
     """The antenna at ``frequency_hz`` [Hz], any shape: what this process has not solved before
     is solved in one engine run (one frequency card per run of evenly spaced frequencies).
     Without ``pattern`` the far field is not computed (the peak gain is NaN): the impedance
-    alone costs a fraction of it.
+    alone costs a fraction of it. A run of many frequencies is shared between this process and
+    forked workers (`engine_processes`, `split_cards`), with the serial run's results.
 
     Parameters
     ----------
     antenna : WireAntenna
     frequency_hz : array_like
         Frequencies [Hz], each with segments of at most `LARGEST_SEGMENT_WAVELENGTHS`.
+    pattern : bool
+        Whether to compute the far field (the peak gain).
+    processes : int, optional
+        The most processes the engine run may use (1: this one only); by default
+        `engine_processes` (the environment variable `PROCESSES_VARIABLE`, else 2).
 
     Returns
     -------
@@ -362,7 +479,8 @@ def solve(antenna: WireAntenna, frequency_hz, pattern=True) -> WireSolution:
     missing = sorted({float(x) for x in f.ravel()
                       if (antenna, float(x)) not in _CACHE or (pattern and math.isnan(_CACHE[(antenna, float(x))][2]))})
     if missing:
-        z, loss_db, gain = _engine_run(antenna, missing, pattern)
+        z, loss_db, gain = _engine_runs(antenna, missing, pattern,
+                                        engine_processes() if processes is None else processes)
         for i, x in enumerate(missing):
             _CACHE[(antenna, x)] = (z[i], loss_db[i], gain[i])
     values = [_CACHE[(antenna, float(x))] for x in f.ravel()]

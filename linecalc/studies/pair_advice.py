@@ -154,17 +154,19 @@ def advise_pairs(station: Station, line_label, antenna_from_m, antenna_to_m, ant
     return PairAdviceResult(station.name, station.antenna.shape, lengths, tuple(scans))
 
 
-def antenna_impedance(antenna: WireAntenna, frequency_hz):
+def antenna_impedance(antenna: WireAntenna, frequency_hz, processes=None):
     """The feedpoint impedance [ohm] at ``frequency_hz`` [Hz] in one engine run (impedance only,
-    no far field), and the wall time it took [s]: the work of one antenna length."""
+    no far field), and the wall time it took [s]: the work of one antenna length. ``processes``:
+    as in `linecalc.physics.wire_antenna.solve`."""
     start = time.perf_counter()
-    z = wire_antenna.solve(antenna, frequency_hz, pattern=False).impedance_ohm
+    z = wire_antenna.solve(antenna, frequency_hz, pattern=False, processes=processes).impedance_ohm
     return z, time.perf_counter() - start
 
 
 @contextmanager
 def _engine_runs(antennas, frequency_hz, jobs):
-    """The impedances of ``antennas`` in order, as (z, seconds): in this process for one job, else
+    """The impedances of ``antennas`` in order, as (z, seconds): in this process for one job (its
+    engine runs shared with a forked worker as `linecalc.physics.wire_antenna.solve` does), else
     from ``jobs`` worker processes (started fresh, so that nothing of this process is copied)
     while this process scans the feeders of the lengths already solved."""
     if jobs == 1:
@@ -172,7 +174,8 @@ def _engine_runs(antennas, frequency_hz, jobs):
         return
     with ProcessPoolExecutor(max_workers=jobs, mp_context=multiprocessing.get_context("spawn"),
                              initializer=_leave_interrupts_to_the_main_process) as pool:
-        futures = [pool.submit(antenna_impedance, antenna, frequency_hz) for antenna in antennas]
+        # each worker solves its engine runs alone: ``jobs`` processes in all, not twice as many
+        futures = [pool.submit(antenna_impedance, antenna, frequency_hz, 1) for antenna in antennas]
         try:
             yield (future.result() for future in futures)
         finally:

@@ -12,6 +12,7 @@ from scipy.special import sici
 pytest.importorskip("PyNEC")
 
 from linecalc.physics import wire_antenna as wa  # noqa: E402
+from linecalc.errors import InputError  # noqa: E402
 from linecalc.physics.wire_antenna import Ground, WireAntenna  # noqa: E402
 from linecalc.studies.antenna_report import cut_length  # noqa: E402
 
@@ -130,6 +131,7 @@ def test_solved_points_are_cached_and_new_ones_solved_in_one_run(monkeypatch):
     runs = []
     engine = wa._engine_run
     monkeypatch.setattr(wa, "_engine_run", lambda *a: runs.append(a[1]) or engine(*a))
+    monkeypatch.setenv(wa.PROCESSES_VARIABLE, "1")  # each run whole in this process, where it is counted
     first = wa.solve(antenna, [13.9e6, 14.0e6, 14.2e6, 14.3e6])
     again = wa.solve(antenna, [14.0e6, 14.1e6, 14.3e6])
     assert len(runs) == 2 and runs[1] == [14.1e6]  # only the new point in the second run
@@ -150,3 +152,66 @@ def test_inverted_v_feed_chord_and_legs_keep_the_length():
     delta = antenna.segment_m
     assert total == pytest.approx(20.0 - delta * (1 - math.sin(math.radians(45))), rel=1e-12)
     assert min(min(a[2], b[2]) for a, b, _ in model) == pytest.approx(10.0 - 10.0 * math.sin(math.radians(45)))
+
+
+def _split_spy(monkeypatch):
+    """The part sizes (frequencies per process) of each split engine run, in a list."""
+    runs = []
+    split = wa.process_split.run_split
+    monkeypatch.setattr(wa.process_split, "run_split", lambda works: runs.append(len(works)) or split(works))
+    monkeypatch.setattr(wa.os, "cpu_count", lambda: 2)
+    return runs
+
+
+@pytest.mark.parametrize("ground, pattern", [(Ground("perfect"), True), (Ground("real", 0.005, 13.0), False)])
+def test_a_run_shared_with_a_worker_gives_the_serial_numbers_bit_for_bit(monkeypatch, ground, pattern):
+    # The engine solves each frequency on its own: the parts' results are the serial run's,
+    # exactly (two computations of the same numbers, so no tolerance). The frequencies make one
+    # evenly spaced card and a lone one, so a card is cut in the middle.
+    antenna = _antenna("dipole", 0.48 * LAMBDA, 0.25 * LAMBDA, ground, feed_at=0.4)
+    f = [12.0e6, 12.5e6, 13.0e6, 13.5e6, 14.2e6] if pattern else [13.0e6, 13.5e6, 14.0e6, 14.3e6]
+    assert [count for *_, count in wa.frequency_cards(sorted(f))] == ([4, 1] if pattern else [3, 1])
+    runs = _split_spy(monkeypatch)
+    serial = wa.solve(antenna, f, pattern=pattern, processes=1)
+    assert runs == []
+    wa.clear_cache()
+    split = wa.solve(antenna, f, pattern=pattern, processes=2)
+    assert runs == [2]
+    for key in ("impedance_ohm", "wire_loss_db", "peak_gain_dbi"):
+        np.testing.assert_array_equal(getattr(split, key), getattr(serial, key))
+    assert np.all(np.isfinite(split.peak_gain_dbi)) == pattern
+
+
+def test_the_environment_variable_keeps_every_run_in_this_process(monkeypatch):
+    antenna = _antenna("dipole", 0.48 * LAMBDA, 0.25 * LAMBDA, Ground("perfect"), feed_at=0.45)
+    runs = _split_spy(monkeypatch)
+    monkeypatch.setenv(wa.PROCESSES_VARIABLE, "1")
+    wa.solve(antenna, [13.0e6, 13.5e6, 14.0e6, 13.8e6])
+    assert runs == []
+    for bad in ("0", "two", "-1", ""):
+        monkeypatch.setenv(wa.PROCESSES_VARIABLE, bad)
+        with pytest.raises(InputError, match=wa.PROCESSES_VARIABLE):
+            wa.engine_processes()
+    monkeypatch.delenv(wa.PROCESSES_VARIABLE)
+    assert wa.engine_processes() == wa.DEFAULT_PROCESSES
+
+
+def test_a_run_too_small_or_too_cheap_to_pay_for_a_worker_stays_here(monkeypatch):
+    runs = _split_spy(monkeypatch)
+    small = _antenna("dipole", 0.48 * LAMBDA, 0.0, Ground("free-space"), feed_at=0.45)
+    assert sum(count for *_, count in wa.wires(small)[0]) < wa.MIN_SEGMENTS_TO_SPLIT
+    wa.solve(small, [13.0e6, 13.5e6, 14.0e6, 13.8e6], pattern=False)  # 0.1 ms a frequency
+    wa.solve(small, [12.0e6, 12.5e6, 12.8e6], pattern=True)  # fewer than 2 frequencies per process
+    assert runs == []
+
+
+def test_cards_are_cut_into_equal_parts_where_the_engine_steps():
+    cards = wa.frequency_cards([1e6, 2e6, 3e6, 4e6, 5e6, 7.5e6])
+    assert cards == [(1.0, 1.0, 5), (7.5, 0.0, 1)]
+    # the rest of a cut card starts where the engine's repeated addition of the step arrives
+    assert wa.split_cards(cards, 2) == [[(1.0, 1.0, 3)], [(4.0, 1.0, 2), (7.5, 0.0, 1)]]
+    step = 0.1
+    cut = wa.split_cards([(7.0, step, 10)], 2)
+    assert cut[1][0] == (7.0 + step + step + step + step + step, step, 5)  # the step added 5 times
+    assert wa.split_cards(cards, 4) == [[(1.0, 1.0, 2)], [(3.0, 1.0, 2)], [(5.0, 1.0, 1), (7.5, 0.0, 1)]]
+    assert wa.split_cards([(7.0, 0.0, 1)], 2) == [[(7.0, 0.0, 1)]]
